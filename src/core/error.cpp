@@ -1,0 +1,10 @@
+#include "core/error.hpp"
+
+namespace tw {
+
+void fail_internal(const std::string& what, std::source_location where) {
+  throw InternalError("internal error in " + std::string(where.function_name()) + " (" +
+                      where.file_name() + ":" + std::to_string(where.line()) + "): " + what);
+}
+
+}  // namespace tw

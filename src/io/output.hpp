@@ -1,0 +1,130 @@
+#pragma once
+/// The run's HDF5 output file. The time loop calls this object; it knows the layout,
+/// the time loop does not. Layout (documented in the README, "Output file"):
+///
+///   /                      attributes: format = "tubewave-run", format_version,
+///                          complete (0/1: set last, after everything else is flushed),
+///                          title, model, created (UTC ISO 8601)
+///   /provenance            run_file (text as read), run_file_name, overrides,
+///                          resolved_run_file (YAML), tubewave_version, git_revision,
+///                          compiler, build_type, build_flags, threads  (all string or int
+///                          datasets)
+///   /parameters/<name>     scalar datasets of resolved/derived parameters, "units" and
+///                          "description" attributes
+///   /grid/x, /grid/x_faces cell centres and faces [m]
+///   /<series>/time         [n_rows] seconds, plus /<series>/step [n_rows]
+///   /<series>/<column>     [n_rows, width] for every declared column, "units" and
+///                          "description" attributes. Series used by the solver:
+///                          "snapshots" (width n_cells), "probes" (width n_probes),
+///                          "history" (width 1: conserved totals, energy budget terms)
+///   /status                attributes: outcome ("completed" | "failed" | "interrupted"),
+///                          message, steps, simulated_time, wall_seconds
+///
+/// Every numeric dataset carries a CF-style "units" string attribute (SI; "1" for
+/// dimensionless). Strings are variable-length UTF-8.
+///
+/// Atomicity: the file is written as "<path>.tmp.<pid>" and renamed to <path> by
+/// `close_as()`; if the object is destroyed without that, the temporary file is removed.
+/// A previous file at <path> is untouched until the rename.
+#include <memory>
+#include <span>
+#include <string>
+#include <vector>
+
+#include "core/types.hpp"
+
+namespace tw::io {
+
+/// Description of one output column (a field, a probe quantity, a history scalar).
+struct ColumnInfo {
+  std::string name;         ///< dataset name, e.g. "density", "magnetic_field_y"
+  std::string units;        ///< CF "units" attribute, SI, e.g. "m^-3", "T", "1"
+  std::string description;  ///< one line
+};
+
+/// A named scalar parameter written under /parameters.
+struct ParameterValue {
+  std::string name;
+  real value = 0;
+  std::string units;
+  std::string description;
+};
+
+/// Build and run provenance written once under /provenance.
+struct Provenance {
+  std::string title;
+  std::string model;
+  std::string run_file_name;
+  std::string run_file_text;
+  std::string overrides;  ///< the --set arguments, one per line
+  std::string resolved_run_file;
+  int threads = 1;
+};
+
+/// Handle to an extendable table of rows sharing a time axis (see layout above).
+///
+/// Copies share one table. Rows are buffered in memory and reach the file in blocks of
+/// `rows_per_chunk` rows (one HDF5 write per dataset per block), on OutputFile::flush() and
+/// on close_as(). Each column dataset is float64 [rows, width] with chunks
+/// [rows_per_chunk, width] (shuffle + deflate level 4 when compressed); /<series>/time is
+/// float64 and /<series>/step int64, both [rows], chunked by max(rows_per_chunk, 1024).
+/// A Series must not be used after its OutputFile is closed or destroyed (append then
+/// throws InternalError).
+class Series {
+ public:
+  /// Append one row: `values` holds width values of the first column, then the second, ...
+  /// (n_columns() * width() values; another size is an InternalError). `t` in seconds.
+  void append(real t, long step, std::span<const real> values);
+  [[nodiscard]] std::size_t rows() const;  ///< rows appended (written or still buffered)
+  [[nodiscard]] std::size_t rows_written() const;  ///< rows already handed to HDF5
+  [[nodiscard]] int width() const;
+  [[nodiscard]] int n_columns() const;
+  [[nodiscard]] const std::string& name() const;  ///< the group name ("" if not created)
+
+ private:
+  friend class OutputFile;
+  struct Impl;
+  std::shared_ptr<Impl> impl_;
+};
+
+/// Errors: HDF5 and file-system failures throw RunError naming the file, the operation and
+/// the object; misuse (bad names, duplicates, calls after close_as) throws InternalError.
+/// Not thread-safe: one thread (the time loop) owns the object.
+class OutputFile {
+ public:
+  /// Create the temporary file next to `final_path`. Throws RunError if it cannot: the
+  /// directory of `final_path` must already exist (it is never created), and an existing
+  /// file at the temporary name is never overwritten.
+  explicit OutputFile(std::string final_path);
+  OutputFile(const OutputFile&) = delete;
+  OutputFile& operator=(const OutputFile&) = delete;
+  ~OutputFile();  ///< removes the temporary file unless close_as() succeeded
+
+  void write_provenance(const Provenance& p);
+  void write_parameters(const std::vector<ParameterValue>& params);
+  void write_grid(std::span<const real> x_centres, std::span<const real> x_faces);
+
+  /// Declare a series group. `width` values per column per row; `rows_per_chunk` sets the
+  /// HDF5 chunking (snapshots: 1 row per chunk and compressed; probes/history: many rows).
+  Series create_series(const std::string& group, const std::vector<ColumnInfo>& columns,
+                       int width, int rows_per_chunk, bool compress);
+
+  /// Flush buffered rows to disk (called by the time loop now and then, not every step).
+  void flush();
+
+  /// Write /status, set the root "complete" attribute (1 only for outcome "completed"),
+  /// flush, close and rename to the final path. Buffered rows are written first; the file is
+  /// flushed before "complete" is set and again after. If this throws, the temporary file
+  /// is removed by the destructor and a previous file at the final path is kept.
+  void close_as(const std::string& outcome, const std::string& message, long steps,
+                real simulated_time, real wall_seconds);
+
+  [[nodiscard]] const std::string& final_path() const;
+  [[nodiscard]] const std::string& temporary_path() const;
+
+ private:
+  struct Impl;
+  std::unique_ptr<Impl> impl_;
+};
+
+}  // namespace tw::io

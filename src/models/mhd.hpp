@@ -1,0 +1,220 @@
+#pragma once
+/// Ideal and resistive MHD in one dimension along x, with constant B_x.
+///
+/// Equations (SI; B in tesla; E the total energy density):
+///
+///   d(rho)/dt   + d(rho u)/dx                                   = 0
+///   d(rho u)/dt + d(rho u^2 + p + B^2/2mu0 - Bx^2/mu0)/dx       = 0
+///   d(rho v)/dt + d(rho u v - Bx By/mu0)/dx                     = 0
+///   d(rho w)/dt + d(rho u w - Bx Bz/mu0)/dx                     = 0
+///   d(By)/dt    + d(By u - Bx v)/dx                             = 0
+///   d(Bz)/dt    + d(Bz u - Bx w)/dx                             = 0
+///   d(E)/dt     + d((E + p + B^2/2mu0) u - Bx (u.B)/mu0)/dx    = 0
+///
+/// with (u, v, w) the velocity and E = p/(gamma-1) + rho|u|^2/2 + |B|^2/2mu0.
+/// Closures: adiabatic (gamma law) or isothermal (p = rho a^2, energy not evolved; its
+/// slot stays zero).
+///
+/// Dissipation, through fluxes built from gradients at faces:
+/// - resistivity eta [Ohm m]: E_res = eta J adds -(eta/mu0) dB_perp/dx to the B fluxes and
+///   the matching Poynting flux (E_res x B)_x / mu0 to the energy flux, so Ohmic heating
+///   is included and total energy is conserved;
+/// - kinematic viscosity nu [m^2/s] (Navier-Stokes, no bulk viscosity): momentum flux
+///   -rho nu (4/3 du/dx, dv/dx, dw/dx) and the matching work term in the energy flux.
+///
+/// Primitive variables W = (rho, u, v, w, By, Bz, p); conservative
+/// U = (rho, rho u, rho v, rho w, By, Bz, E).
+#include <cmath>
+#include <vector>
+
+#include "models/model.hpp"
+
+namespace tw {
+
+enum class Closure { adiabatic, isothermal };
+
+struct Mhd {
+  static constexpr int n_vars = 7;
+  using State = Vec<n_vars>;
+  /// Indices, shared by U and W where the meaning matches.
+  enum : int { RHO = 0, MX = 1, MY = 2, MZ = 3, BY = 4, BZ = 5, EN = 6 };
+  enum : int { VX = 1, VY = 2, VZ = 3, P = 6 };
+
+  Closure closure = Closure::adiabatic;
+  real gamma = 5.0 / 3.0;        ///< ratio of specific heats (adiabatic closure)
+  real sound_speed_iso = 0;      ///< isothermal sound speed a [m/s] (isothermal closure)
+  real bx = 0;                   ///< constant B_x [T]
+  real mu0 = 1.25663706212e-6;   ///< permeability of the unit system
+  real particle_mass = 1;        ///< mass per ion incl. its electrons [kg]: rho / n_i
+  real resistivity = 0;          ///< eta [Ohm m]
+  real viscosity = 0;            ///< kinematic viscosity nu [m^2/s]
+
+  static const char* name() { return "mhd"; }
+
+  [[nodiscard]] real magnetic_energy(real by, real bz) const {
+    return (bx * bx + by * by + bz * bz) / (2 * mu0);
+  }
+
+  [[nodiscard]] State prim_from_cons(const State& U) const {
+    State W;
+    const real rho = U[RHO];
+    const real inv = 1 / rho;
+    W[RHO] = rho;
+    W[VX] = U[MX] * inv;
+    W[VY] = U[MY] * inv;
+    W[VZ] = U[MZ] * inv;
+    W[BY] = U[BY];
+    W[BZ] = U[BZ];
+    if (closure == Closure::adiabatic) {
+      const real kin = 0.5 * (U[MX] * W[VX] + U[MY] * W[VY] + U[MZ] * W[VZ]);
+      W[P] = (gamma - 1) * (U[EN] - kin - magnetic_energy(U[BY], U[BZ]));
+    } else {
+      W[P] = rho * sound_speed_iso * sound_speed_iso;
+    }
+    return W;
+  }
+
+  [[nodiscard]] State cons_from_prim(const State& W) const {
+    State U;
+    const real rho = W[RHO];
+    U[RHO] = rho;
+    U[MX] = rho * W[VX];
+    U[MY] = rho * W[VY];
+    U[MZ] = rho * W[VZ];
+    U[BY] = W[BY];
+    U[BZ] = W[BZ];
+    U[EN] = closure == Closure::adiabatic ? total_energy(W) : 0.0;
+    return U;
+  }
+
+  /// Total energy density of a primitive state (adiabatic closure) [J/m^3].
+  [[nodiscard]] real total_energy(const State& W) const {
+    return W[P] / (gamma - 1) +
+           0.5 * W[RHO] * (W[VX] * W[VX] + W[VY] * W[VY] + W[VZ] * W[VZ]) +
+           magnetic_energy(W[BY], W[BZ]);
+  }
+
+  [[nodiscard]] State flux(const State& W) const {
+    const real rho = W[RHO], u = W[VX], v = W[VY], w = W[VZ], by = W[BY], bz = W[BZ];
+    const real inv_mu0 = 1 / mu0;
+    const real pmag = magnetic_energy(by, bz);
+    const real ptot = W[P] + pmag;
+    State F;
+    F[RHO] = rho * u;
+    F[MX] = rho * u * u + ptot - bx * bx * inv_mu0;
+    F[MY] = rho * u * v - bx * by * inv_mu0;
+    F[MZ] = rho * u * w - bx * bz * inv_mu0;
+    F[BY] = by * u - bx * v;
+    F[BZ] = bz * u - bx * w;
+    if (closure == Closure::adiabatic) {
+      const real e = total_energy(W);
+      F[EN] = (e + ptot) * u - bx * (u * bx + v * by + w * bz) * inv_mu0;
+    } else {
+      F[EN] = 0;
+    }
+    return F;
+  }
+
+  /// Squared sound speed of a primitive state [m^2/s^2].
+  [[nodiscard]] real sound_speed2(const State& W) const {
+    return closure == Closure::adiabatic ? gamma * W[P] / W[RHO]
+                                         : sound_speed_iso * sound_speed_iso;
+  }
+
+  /// Fast magnetosonic speed along x [m/s].
+  [[nodiscard]] real fast_speed(const State& W) const {
+    const real a2 = sound_speed2(W);
+    const real inv = 1 / (mu0 * W[RHO]);
+    const real b2 = (bx * bx + W[BY] * W[BY] + W[BZ] * W[BZ]) * inv;
+    const real bx2 = bx * bx * inv;
+    const real s = a2 + b2;
+    return std::sqrt(0.5 * (s + std::sqrt(std::max(s * s - 4 * a2 * bx2, real(0)))));
+  }
+
+  [[nodiscard]] SpeedRange signal_speeds(const State& W) const {
+    const real cf = fast_speed(W);
+    return {W[VX] - cf, W[VX] + cf};
+  }
+
+  /// Finite everywhere, positive density and pressure. (A sum of finite numbers is
+  /// finite unless it overflows, so one isfinite test covers all components.)
+  [[nodiscard]] bool admissible(const State& W) const {
+    real sum = 0;
+    for (real q : W) sum += q;
+    return std::isfinite(sum) && W[RHO] > 0 && W[P] > 0;
+  }
+
+  /// Positive density and pressure (false for NaN); used for reconstructed face values,
+  /// which are finite whenever the cell averages are.
+  [[nodiscard]] bool positive(const State& W) const { return W[RHO] > 0 && W[P] > 0; }
+
+  /// Ghost state behind a perfectly conducting, line-tied end: the normal and transverse
+  /// velocity change sign (no flow through the end, field lines tied), the transverse
+  /// field is mirrored evenly (E_perp = 0 on the end).
+  [[nodiscard]] State wall_mirror(const State& W) const {
+    State G = W;
+    G[VX] = -W[VX];
+    G[VY] = -W[VY];
+    G[VZ] = -W[VZ];
+    return G;
+  }
+
+  /// True when gradient fluxes are non-zero (lets the operator skip them).
+  [[nodiscard]] bool gradient_terms_active() const { return resistivity > 0 || viscosity > 0; }
+
+  [[nodiscard]] State gradient_flux(const State& Wl, const State& Wr, real dx) const {
+    State F{};
+    if (resistivity > 0) {
+      const real eta_m = resistivity / mu0;
+      const real dby = (Wr[BY] - Wl[BY]) / dx, dbz = (Wr[BZ] - Wl[BZ]) / dx;
+      const real by = 0.5 * (Wl[BY] + Wr[BY]), bz = 0.5 * (Wl[BZ] + Wr[BZ]);
+      F[BY] = -eta_m * dby;
+      F[BZ] = -eta_m * dbz;
+      if (closure == Closure::adiabatic) F[EN] = -eta_m / mu0 * (by * dby + bz * dbz);
+    }
+    if (viscosity > 0) {
+      const real rho = 0.5 * (Wl[RHO] + Wr[RHO]);
+      const real mu = rho * viscosity;
+      const real du = (Wr[VX] - Wl[VX]) / dx, dv = (Wr[VY] - Wl[VY]) / dx,
+                 dw = (Wr[VZ] - Wl[VZ]) / dx;
+      const real u = 0.5 * (Wl[VX] + Wr[VX]), v = 0.5 * (Wl[VY] + Wr[VY]),
+                 w = 0.5 * (Wl[VZ] + Wr[VZ]);
+      F[MX] -= mu * (4.0 / 3.0) * du;
+      F[MY] -= mu * dv;
+      F[MZ] -= mu * dw;
+      if (closure == Closure::adiabatic) F[EN] -= mu * ((4.0 / 3.0) * u * du + v * dv + w * dw);
+    }
+    return F;
+  }
+
+  void step_limits(real dx, const State& /*W*/, StepLimits& limits) const {
+    if (resistivity > 0) limits.offer("resistive diffusion", dx * dx * mu0 / (2 * resistivity));
+    if (viscosity > 0) limits.offer("viscous diffusion", dx * dx / (2 * (4.0 / 3.0) * viscosity));
+  }
+
+  static std::vector<VariableInfo> output_info() {
+    return {{"density", "m^-3", "ion number density"},
+            {"velocity_x", "m/s", "flow velocity along the tube"},
+            {"velocity_y", "m/s", "transverse flow velocity, y"},
+            {"velocity_z", "m/s", "transverse flow velocity, z"},
+            {"magnetic_field_y", "T", "transverse magnetic field, y"},
+            {"magnetic_field_z", "T", "transverse magnetic field, z"},
+            {"pressure", "Pa", "total thermal pressure (ions and electrons)"}};
+  }
+  void to_output(const State& W, real* out) const {
+    out[0] = W[RHO] / particle_mass;
+    for (int k = 1; k < n_vars; ++k) out[k] = W[k];
+  }
+
+  /// Transverse velocity of a primitive state, and setting it (used by drives).
+  void set_transverse_velocity(State& W, real vy, real vz) const {
+    W[VY] = vy;
+    W[VZ] = vz;
+  }
+};
+
+static_assert(Model<Mhd>);
+static_assert(HasGradientFlux<Mhd>);
+static_assert(HasStepLimits<Mhd>);
+
+}  // namespace tw

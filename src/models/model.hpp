@@ -1,0 +1,125 @@
+#pragma once
+/// The fixed interface every model implements, as a C++20 concept.
+///
+/// A model is a small value type (copyable, no mutable scratch, safe to share between
+/// threads) describing one system of balance laws in 1D:
+///
+///     dU/dt + dF(U)/dx = S(U, x, t)
+///
+/// It is written in two sets of variables: conservative U (what the finite-volume update
+/// evolves) and primitive W (what is reconstructed at faces and what boundaries set).
+///
+/// Required members:
+///   static constexpr int n_vars;                 number of variables
+///   using State = Vec<n_vars>;
+///   State prim_from_cons(const State& U) const;
+///   State cons_from_prim(const State& W) const;
+///   State flux(const State& W) const;            physical flux from primitive variables
+///   SpeedRange signal_speeds(const State& W) const;  slowest and fastest signal speeds
+///   bool admissible(const State& W) const;       finite, positive density/pressure, ...
+///   bool positive(const State& W) const;         the positivity part only (false for NaN)
+///   State wall_mirror(const State& W) const;     ghost state behind a conducting wall
+///   static std::vector<VariableInfo> output_info(); output columns (name, units, doc)
+///   void to_output(const State& W, real* out) const;  values in SI for those columns
+///   static const char* name();
+///
+/// Optional members, detected with `requires` by the finite-volume operator:
+///   State gradient_flux(const State& Wl, const State& Wr, real dx) const;
+///   bool gradient_terms_active() const;
+///        flux from gradients at the face between two cells (resistivity, viscosity, Hall),
+///        skipped entirely when gradient_terms_active() is false
+///   State source(const State& W, real x, real t) const;   local source term
+///   void step_limits(real dx, const State& W, StepLimits& limits) const;
+///        extra time-step limits of one cell (diffusion, whistler, ...)
+#include <algorithm>
+#include <concepts>
+#include <limits>
+#include <string>
+#include <vector>
+
+#include "core/types.hpp"
+
+namespace tw {
+
+/// Slowest and fastest characteristic speeds of a state [m/s].
+struct SpeedRange {
+  real min = 0;
+  real max = 0;
+  [[nodiscard]] real abs_max() const { return std::max(-min, max); }
+};
+
+/// Description of one output column of a model.
+struct VariableInfo {
+  std::string name;         ///< e.g. "density"
+  std::string units;        ///< SI unit, e.g. "m^-3"
+  std::string description;  ///< one line
+};
+
+/// A named upper bound on the time step [s].
+struct StepLimit {
+  const char* name = "";
+  real dt = std::numeric_limits<real>::infinity();
+};
+
+/// The time-step limits gathered in one sweep over the grid; each keeps its minimum.
+class StepLimits {
+ public:
+  /// Offer a bound; kept if smaller than the one of the same name.
+  void offer(const char* name, real dt) {
+    for (auto& l : limits_)
+      if (l.name == name || std::string_view(l.name) == name) {
+        l.dt = std::min(l.dt, dt);
+        return;
+      }
+    limits_.push_back({name, dt});
+  }
+  /// Merge another set (used to combine per-thread results, in fixed order).
+  void merge(const StepLimits& other) {
+    for (const auto& l : other.limits_) offer(l.name, l.dt);
+  }
+  [[nodiscard]] const std::vector<StepLimit>& all() const { return limits_; }
+  /// The smallest bound (infinite if none).
+  [[nodiscard]] StepLimit tightest() const {
+    StepLimit best;
+    for (const auto& l : limits_)
+      if (l.dt < best.dt) best = l;
+    return best;
+  }
+  void clear() { limits_.clear(); }
+
+ private:
+  std::vector<StepLimit> limits_;
+};
+
+template <class M>
+concept Model = requires(const M m, const typename M::State& s, real* out) {
+  { M::n_vars } -> std::convertible_to<int>;
+  { m.prim_from_cons(s) } -> std::same_as<typename M::State>;
+  { m.cons_from_prim(s) } -> std::same_as<typename M::State>;
+  { m.flux(s) } -> std::same_as<typename M::State>;
+  { m.signal_speeds(s) } -> std::same_as<SpeedRange>;
+  { m.admissible(s) } -> std::same_as<bool>;
+  { m.positive(s) } -> std::same_as<bool>;
+  { m.wall_mirror(s) } -> std::same_as<typename M::State>;
+  { M::output_info() } -> std::same_as<std::vector<VariableInfo>>;
+  { m.to_output(s, out) };
+  { M::name() } -> std::convertible_to<const char*>;
+};
+
+template <class M>
+concept HasGradientFlux = requires(const M m, const typename M::State& s, real dx) {
+  { m.gradient_flux(s, s, dx) } -> std::same_as<typename M::State>;
+  { m.gradient_terms_active() } -> std::same_as<bool>;
+};
+
+template <class M>
+concept HasSource = requires(const M m, const typename M::State& s, real x, real t) {
+  { m.source(s, x, t) } -> std::same_as<typename M::State>;
+};
+
+template <class M>
+concept HasStepLimits = requires(const M m, const typename M::State& s, real dx, StepLimits& l) {
+  { m.step_limits(dx, s, l) };
+};
+
+}  // namespace tw

@@ -1,0 +1,60 @@
+#pragma once
+/// The catalogue of numerical fluxes and which model can use which.
+///
+/// A run file names a flux ("rusanov", "hll", "hlld", "upwind"); `flux_type_t<M, K>` maps
+/// that name to the solver type used with model M. The defaults are the generic solvers;
+/// a model may specialise FluxFor to supply its own (a two-fluid model applying HLL per
+/// fluid, a linear model's exact upwind flux). A kind with `void` as its type is not
+/// available for that model, which the run-file setup reports as bad input.
+#include <string>
+#include <type_traits>
+#include <vector>
+
+#include "numerics/hlld.hpp"
+#include "numerics/riemann.hpp"
+
+namespace tw {
+
+enum class FluxKind { rusanov, hll, hlld, upwind };
+
+inline const std::vector<std::string>& flux_names() {
+  static const std::vector<std::string> n{"rusanov", "hll", "hlld", "upwind"};
+  return n;
+}
+
+/// Solver type for model M and flux kind K; specialise for model-specific solvers.
+template <class M, FluxKind K>
+struct FluxFor {
+  using type = void;
+};
+template <class M>
+struct FluxFor<M, FluxKind::rusanov> {
+  using type = RusanovFlux;
+};
+template <class M>
+struct FluxFor<M, FluxKind::hll> {
+  using type = HllFlux;
+};
+template <>
+struct FluxFor<Mhd, FluxKind::hlld> {
+  using type = HlldFlux;
+};
+
+template <class M, FluxKind K>
+using flux_type_t = typename FluxFor<M, K>::type;
+
+template <class M, FluxKind K>
+inline constexpr bool flux_supported_v = !std::is_void_v<flux_type_t<M, K>>;
+
+template <class M>
+bool flux_supported(FluxKind k) {
+  switch (k) {
+    case FluxKind::rusanov: return flux_supported_v<M, FluxKind::rusanov>;
+    case FluxKind::hll: return flux_supported_v<M, FluxKind::hll>;
+    case FluxKind::hlld: return flux_supported_v<M, FluxKind::hlld>;
+    case FluxKind::upwind: return flux_supported_v<M, FluxKind::upwind>;
+  }
+  return false;
+}
+
+}  // namespace tw
