@@ -1,0 +1,229 @@
+/// `tubewave plasma`: the derived parameters of a uniform plasma, as a text table or JSON.
+///
+/// The work is split so that a PlasmaInput can come from somewhere other than flags
+/// (a run file, later): input_from_flags() -> derive_plasma_parameters() -> print_table()
+/// or print_json(). Everything is computed and validated before anything is printed.
+#include <algorithm>
+#include <charconv>
+#include <cstdio>
+#include <iostream>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "cli/args.hpp"
+#include "cli/commands.hpp"
+#include "core/constants.hpp"
+#include "core/error.hpp"
+#include "core/plasma_params.hpp"
+#include "core/species.hpp"
+#include "tubewave/version.hpp"
+
+namespace tw::cli {
+namespace {
+
+/// A PlasmaInput and the name of its ion ("" when given by mass).
+struct LabelledInput {
+  PlasmaInput input;
+  std::string ion;
+};
+
+ArgParser make_parser() {
+  ArgParser p("plasma", "--n N_M3 --B B_T (--ion NAME | --mass-amu M) [options]",
+              "Print the derived parameters of a uniform, quasi-neutral plasma with one ion\n"
+              "species: Alfvén speeds, cyclotron, plasma and lower hybrid frequencies (rad/s\n"
+              "and Hz), inertial lengths, gyroradii, Debye length, beta, Coulomb logarithm,\n"
+              "Braginskii collision time and resistivities. SI units; temperatures in eV.\n"
+              "Thermal speeds are sqrt(kT/m). A zero temperature is allowed (cold plasma):\n"
+              "thermal quantities are then 0 and the collisional ones are omitted.\n"
+              "\n"
+              "ions: " + known_species_list() + ".");
+  p.option("n", "N_M3", "electron density [m^-3] (> 0); the ion density is n/Z")
+      .option("B", "B_T", "magnetic field strength [T] (> 0)")
+      .option("ion", "NAME", "ion species by symbol or name, e.g. H, D, He, Ar, argon")
+      .option("mass-amu", "M", "ion mass [u] instead of --ion (the ion's own mass, > 0)")
+      .option("charge", "Z", "ion charge number (integer >= 1, default 1); with --ion, Z electrons are removed")
+      .option("Te", "EV", "electron temperature [eV] (>= 0, default 0)")
+      .option("Ti", "EV", "ion temperature [eV] (>= 0, default 0)")
+      .option("lnlambda", "L", "Coulomb logarithm to use instead of the NRL formula (> 0)")
+      .flag("json", "print one JSON object instead of a table");
+  return p;
+}
+
+/// `--NAME` as a number that must satisfy `ok`, else InputError naming flag and value.
+template <class Pred>
+double checked_real(const ArgParser& args, const std::string& name, Pred ok,
+                    const std::string& range) {
+  const double v = args.real_value(name);
+  if (!ok(v)) {
+    throw InputError("option --" + name + ": '" + args.value(name) + "' is out of range; it must be " +
+                     range + "; " + args.help_hint());
+  }
+  return v;
+}
+
+LabelledInput input_from_flags(const ArgParser& args) {
+  LabelledInput out;
+  PlasmaInput& in = out.input;
+  const auto positive = [](double v) { return v > 0; };
+  const auto non_negative = [](double v) { return v >= 0; };
+  in.n_e = checked_real(args, "n", positive, "> 0 (electron density in m^-3)");
+  in.B = checked_real(args, "B", positive, "> 0 (field strength in T)");
+  if (args.has("charge")) {
+    const long z = args.int_value("charge");
+    if (z < 1 || z > 200) {
+      throw InputError("option --charge: '" + args.value("charge") +
+                       "' is out of range; it must be an integer >= 1; " + args.help_hint());
+    }
+    in.Z = static_cast<int>(z);
+  }
+  const bool by_name = args.has("ion");
+  const bool by_mass = args.has("mass-amu");
+  if (by_name == by_mass) {
+    throw InputError(std::string(by_name ? "options --ion and --mass-amu were both given"
+                                         : "no ion given") +
+                     ": give exactly one of --ion NAME or --mass-amu M; " + args.help_hint());
+  }
+  if (by_name) {
+    const std::string name = args.value("ion");
+    const IonSpecies* s = find_species(name);
+    if (s == nullptr) {
+      throw InputError("option --ion: unknown ion species '" + name + "'; known species: " +
+                       known_species_list() + "; or give the ion mass with --mass-amu M; " +
+                       args.help_hint());
+    }
+    out.ion = std::string(s->symbol);
+    // The table's atoms lose Z electrons (Z from --charge, default 1).
+    in.ion_mass = s->atomic_mass_u * constants::u - static_cast<real>(in.Z) * constants::m_e;
+  } else {
+    in.ion_mass = checked_real(args, "mass-amu", positive, "> 0 (ion mass in u)") * constants::u;
+  }
+  if (args.has("Te")) in.Te_eV = checked_real(args, "Te", non_negative, ">= 0 (eV)");
+  if (args.has("Ti")) in.Ti_eV = checked_real(args, "Ti", non_negative, ">= 0 (eV)");
+  if (args.has("lnlambda")) in.ln_lambda = checked_real(args, "lnlambda", positive, "> 0");
+  return out;
+}
+
+// ---- text table ------------------------------------------------------------------------
+
+/// Display width of UTF-8 text (code points; every character here is one column wide).
+std::size_t display_width(const std::string& s) {
+  return static_cast<std::size_t>(std::count_if(
+      s.begin(), s.end(), [](char ch) { return (static_cast<unsigned char>(ch) & 0xC0) != 0x80; }));
+}
+
+std::string pad(const std::string& s, std::size_t width) {
+  const std::size_t w = display_width(s);
+  return s + std::string(w < width ? width - w : 0, ' ');
+}
+
+std::string text_number(real v) {
+  char buf[40];
+  std::snprintf(buf, sizeof buf, "%.6g", v);
+  return buf;
+}
+
+void print_rows(std::string& out, const std::vector<PlasmaParameterRow>& rows) {
+  std::size_t wd = 0, ws = 0, wv = 0;
+  for (const auto& r : rows) {
+    wd = std::max(wd, display_width(r.description));
+    ws = std::max(ws, display_width(r.symbol));
+    wv = std::max(wv, text_number(r.value).size());
+  }
+  for (const auto& r : rows) {
+    const std::string num = text_number(r.value);
+    out += "  " + pad(r.description, wd) + "  " + pad(r.symbol, ws) + "  " +
+           std::string(wv - num.size(), ' ') + num + "  " + r.units + "\n";
+  }
+}
+
+std::string format_table(const LabelledInput& li, const PlasmaParameters& p) {
+  std::string out = "plasma parameters (SI; thermal speeds sqrt(kT/m))\n\ninput";
+  out += li.ion.empty() ? ":\n" : " (ion " + li.ion + "):\n";
+  print_rows(out, plasma_input_rows(li.input));
+  out += "\nderived:\n";
+  print_rows(out, plasma_parameter_rows(p));
+  out += "\nAlfvén wave regime: " + std::string(alfven_regime_name(p.regime)) + " (v_te/v_A = " +
+         text_number(p.v_te_over_v_A) + (p.v_te_over_v_A > 1 ? " > 1)" : " <= 1)") + "\n";
+  if (!p.notes.empty()) {
+    out += "\nnotes:\n";
+    for (const auto& n : p.notes) out += "  - " + n + "\n";
+  }
+  return out;
+}
+
+// ---- JSON ------------------------------------------------------------------------------
+
+std::string json_string(const std::string& s) {
+  std::string out = "\"";
+  for (const char ch : s) {
+    const auto u = static_cast<unsigned char>(ch);
+    if (ch == '"') out += "\\\"";
+    else if (ch == '\\') out += "\\\\";
+    else if (ch == '\n') out += "\\n";
+    else if (u < 0x20) {
+      char buf[8];
+      std::snprintf(buf, sizeof buf, "\\u%04x", u);
+      out += buf;
+    } else out += ch;
+  }
+  return out + "\"";
+}
+
+/// Shortest text that reads back to the same double (values are always finite here).
+std::string json_number(real v) {
+  char buf[40];
+  const auto res = std::to_chars(buf, buf + sizeof buf, v);
+  return std::string(buf, res.ptr);
+}
+
+void json_object(std::string& out, const char* name, const std::vector<PlasmaParameterRow>& rows,
+                 bool units, const std::string& first_member = {}) {
+  out += "  " + json_string(name) + ": {";
+  bool first = true;
+  if (!first_member.empty()) {
+    out += "\n    " + first_member;
+    first = false;
+  }
+  for (const auto& r : rows) {
+    out += first ? "\n    " : ",\n    ";
+    out += json_string(r.key) + ": " + (units ? json_string(r.units) : json_number(r.value));
+    first = false;
+  }
+  out += "\n  }";
+}
+
+std::string format_json(const LabelledInput& li, const PlasmaParameters& p) {
+  const auto in_rows = plasma_input_rows(li.input);
+  const auto rows = plasma_parameter_rows(p);
+  std::string out = "{\n";
+  out += "  \"tubewave_version\": " + json_string(build::version) + ",\n";
+  json_object(out, "inputs", in_rows, false,
+              "\"ion\": " + (li.ion.empty() ? std::string("null") : json_string(li.ion)));
+  out += ",\n";
+  json_object(out, "derived", rows, false);
+  out += ",\n";
+  std::vector<PlasmaParameterRow> all = in_rows;
+  all.insert(all.end(), rows.begin(), rows.end());
+  json_object(out, "units", all, true);
+  out += ",\n  \"alfven_wave_regime\": " + json_string(alfven_regime_name(p.regime)) + ",\n";
+  out += "  \"notes\": [";
+  for (std::size_t k = 0; k < p.notes.size(); ++k) {
+    out += (k ? ", " : "") + json_string(p.notes[k]);
+  }
+  out += "]\n}\n";
+  return out;
+}
+
+}  // namespace
+
+int cmd_plasma(std::span<const std::string> argv) {
+  ArgParser args = make_parser();
+  if (!args.parse(argv)) return exit_code::ok;
+  const LabelledInput li = input_from_flags(args);
+  const PlasmaParameters p = derive_plasma_parameters(li.input);
+  std::cout << (args.has("json") ? format_json(li, p) : format_table(li, p));
+  return exit_code::ok;
+}
+
+}  // namespace tw::cli

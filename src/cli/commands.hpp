@@ -1,0 +1,20 @@
+#pragma once
+/// The subcommands of the `tubewave` executable. Each takes the words after its name
+/// and returns the process exit code; errors are thrown as tw::Error and mapped to exit
+/// codes once, in main().
+#include <span>
+#include <string>
+
+namespace tw::cli {
+
+/// One entry of the command table in main.cpp.
+struct Command {
+  const char* name;     ///< the word after `tubewave`
+  const char* summary;  ///< one line for `tubewave --help`
+  int (*run)(std::span<const std::string> args);
+};
+
+/// `tubewave plasma`: derived plasma parameters (cmd_plasma.cpp).
+int cmd_plasma(std::span<const std::string> args);
+
+}  // namespace tw::cli
