@@ -21,7 +21,10 @@
 ///                          message, steps, simulated_time, wall_seconds
 ///
 /// Every numeric dataset carries a CF-style "units" string attribute (SI; "1" for
-/// dimensionless). Strings are variable-length UTF-8.
+/// dimensionless). Strings are variable-length UTF-8: h5py (3.x) returns attributes as str,
+/// but scalar string datasets (/provenance/*) as bytes, so read those with
+/// `f["provenance/run_file"].asstr()[()]`. Groups record link creation order, so members
+/// (columns, parameters) list in the order they were written (h5py follows it).
 ///
 /// Atomicity: the file is written as "<path>.tmp.<pid>" and renamed to <path> by
 /// `close_as()`; if the object is destroyed without that, the temporary file is removed.
