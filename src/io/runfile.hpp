@@ -15,6 +15,27 @@
 /// - missing required keys (reported at the enclosing section);
 /// - duplicate keys in one map;
 /// - overrides naming an undeclared key or carrying a malformed value.
+///
+/// Rules in detail:
+/// - Paths: dotted names; list elements by 0-based index ("output.probes[0].x",
+///   "plasma.flow[2]" for one number of a real list). The empty path is the root.
+/// - real: a plain YAML number ("1e18", "-2.5", "3"); quoted numbers, words, booleans,
+///   .inf/.nan, maps and lists are rejected. integer: "42", "+7", or a real form that is
+///   exactly whole ("1e3", "2.0"; at most 2^53); 3.5 is rejected. boolean: exactly `true` or
+///   `false`. string: any single value. choice: one of the declared words.
+///   real_list: a list of numbers (any length, empty included, unless `length(n)`).
+/// - An absent section is an empty one: its defaults are filled in and its required keys are
+///   reported missing. An empty value ("numerics:") is an empty section / an empty list of
+///   sections; for any other key it is an error ("has no value").
+/// - Positions: values report where they start; sections and lists of sections report their
+///   key. A missing required key is reported at its enclosing section (file:1:1 for the
+///   root). A default has line 0 and origin "default"; an override has line 0 and origin
+///   "--set KEY=VALUE".
+/// - Overrides "KEY=VALUE" are applied in order, before validation; VALUE is parsed as YAML
+///   ("[1, 2]", "{peak: 2}"). An override replaces the value at KEY (a whole map or list if
+///   KEY names one); maps on the way are created, and anything on the way that is not a map
+///   is replaced by one. An index may name an existing element or the next one (appends).
+/// - Only the first error is reported.
 #include <memory>
 #include <string>
 #include <string_view>
@@ -41,7 +62,9 @@ struct SourcePos {
 };
 
 /// A run-file error. what() reads
-///   "FILE:LINE:COL: key 'plasma.density': must be > 0 (got -1e18)"
+///   "FILE:LINE:COL: key 'plasma.density': must be > 0 (got -1e+18)"
+///   "FILE (--set plasma.density=-1): key 'plasma.density': must be > 0 (got -1)"
+///   "FILE:LINE:COL: REASON"   (errors of the whole file: syntax, empty file; no key part)
 class ConfigError : public InputError {
  public:
   ConfigError(SourcePos pos, std::string key_path, const std::string& reason);

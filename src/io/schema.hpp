@@ -44,7 +44,7 @@ struct KeySpec {
   std::optional<real> min, max;             ///< numeric range (integers too)
   bool min_exclusive = false, max_exclusive = false;
   std::vector<std::string> choices;  ///< for KeyType::choice
-  int list_length = -1;              ///< for real_list: required length, -1 = any (>= 1)
+  int list_length = -1;              ///< for real_list: required length, -1 = any (0 included)
   std::shared_ptr<Section> sub;      ///< for section / section_list / real_or_section
 
   KeySpec& require() { required = true; return *this; }
@@ -66,6 +66,12 @@ struct KeySpec {
 
 /// A map of declared keys. Sections are shared by pointer so one sub-section
 /// (e.g. a profile) can be referenced from several keys.
+///
+/// A KeySpec& returned by a builder stays valid only until the next key is added to the same
+/// section: chain the modifiers at once. Finish the schema before loading run files with it
+/// (a RunFile keeps pointers to the declarations; it also keeps the schema alive).
+/// Key names hold letters, digits, '_' and '-'; a name declared twice is a bug
+/// (InternalError), except section()/section_list(), which return the existing section.
 class Section : public std::enable_shared_from_this<Section> {
  public:
   explicit Section(std::string doc = {}) : doc_(std::move(doc)) {}
