@@ -16,5 +16,9 @@ struct Command {
 
 /// `tubewave plasma`: derived plasma parameters (cmd_plasma.cpp).
 int cmd_plasma(std::span<const std::string> args);
+/// `tubewave run`, `check`, `keys` (cmd_run.cpp).
+int cmd_run(std::span<const std::string> args);
+int cmd_check(std::span<const std::string> args);
+int cmd_keys(std::span<const std::string> args);
 
 }  // namespace tw::cli

@@ -23,6 +23,10 @@ using tw::cli::Command;
 // cli/commands.hpp); `tubewave --help` lists them in this order.
 // ---------------------------------------------------------------------------------------
 constexpr std::array commands{
+    Command{"run", "run a case from a run file and write its HDF5 output", tw::cli::cmd_run},
+    Command{"check", "validate a run file and estimate the time step, steps, memory and output size",
+            tw::cli::cmd_check},
+    Command{"keys", "print the reference of every run-file key", tw::cli::cmd_keys},
     Command{"plasma", "print derived plasma parameters (speeds, frequencies, lengths, collisions)",
             tw::cli::cmd_plasma},
 };

@@ -194,6 +194,7 @@ struct Mhd {
 
   static std::vector<VariableInfo> output_info() {
     return {{"density", "m^-3", "ion number density"},
+            {"mass_density", "kg m^-3", "mass density (ions and electrons)"},
             {"velocity_x", "m/s", "flow velocity along the tube"},
             {"velocity_y", "m/s", "transverse flow velocity, y"},
             {"velocity_z", "m/s", "transverse flow velocity, z"},
@@ -203,10 +204,23 @@ struct Mhd {
   }
   void to_output(const State& W, real* out) const {
     out[0] = W[RHO] / particle_mass;
-    for (int k = 1; k < n_vars; ++k) out[k] = W[k];
+    for (int k = 0; k < n_vars; ++k) out[k + 1] = W[k];
+  }
+
+  /// Integrated conserved quantities per unit cross-section (for totals and budgets),
+  /// in the order of U.
+  static std::vector<VariableInfo> conserved_info() {
+    return {{"mass", "kg m^-2", "mass per unit area"},
+            {"momentum_x", "kg m^-1 s^-1", "x momentum per unit area"},
+            {"momentum_y", "kg m^-1 s^-1", "y momentum per unit area"},
+            {"momentum_z", "kg m^-1 s^-1", "z momentum per unit area"},
+            {"magnetic_flux_y", "T m", "integral of B_y along the tube"},
+            {"magnetic_flux_z", "T m", "integral of B_z along the tube"},
+            {"energy", "J m^-2", "total energy per unit area (zero: not evolved, for the isothermal closure)"}};
   }
 
   /// Transverse velocity of a primitive state, and setting it (used by drives).
+  [[nodiscard]] std::array<real, 2> transverse_velocity(const State& W) const { return {W[VY], W[VZ]}; }
   void set_transverse_velocity(State& W, real vy, real vz) const {
     W[VY] = vy;
     W[VZ] = vz;

@@ -20,6 +20,7 @@
 ///   bool positive(const State& W) const;         the positivity part only (false for NaN)
 ///   State wall_mirror(const State& W) const;     ghost state behind a conducting wall
 ///   static std::vector<VariableInfo> output_info(); output columns (name, units, doc)
+///   static std::vector<VariableInfo> conserved_info(); integrals of U (name, units, doc)
 ///   void to_output(const State& W, real* out) const;  values in SI for those columns
 ///   static const char* name();
 ///
@@ -102,6 +103,7 @@ concept Model = requires(const M m, const typename M::State& s, real* out) {
   { m.positive(s) } -> std::same_as<bool>;
   { m.wall_mirror(s) } -> std::same_as<typename M::State>;
   { M::output_info() } -> std::same_as<std::vector<VariableInfo>>;
+  { M::conserved_info() } -> std::same_as<std::vector<VariableInfo>>;
   { m.to_output(s, out) };
   { M::name() } -> std::convertible_to<const char*>;
 };

@@ -22,6 +22,7 @@
 #include <omp.h>
 
 #include "core/error.hpp"
+#include "core/parallel.hpp"
 #include "drive/boundary.hpp"
 #include "grid/grid.hpp"
 #include "models/model.hpp"
@@ -92,7 +93,7 @@ class FvOperator {
     real smax = 0;
     std::vector<StepLimits> thread_limits;
 
-#pragma omp parallel
+#pragma omp parallel if (run_parallel(n))
     {
 #pragma omp for schedule(static) reduction(min : bad)
       for (int i = 0; i < n; ++i) {

@@ -21,6 +21,7 @@
 #include <vector>
 
 #include "core/error.hpp"
+#include "core/parallel.hpp"
 #include "models/model.hpp"
 #include "numerics/fv_operator.hpp"
 #include "time/integrators.hpp"
@@ -112,7 +113,7 @@ class Stepper {
       const real* l = L_[0].data();
       const long len = static_cast<long>(n) * N;
       const real a = st.a, b = st.b;
-#pragma omp parallel for schedule(static)
+#pragma omp parallel for schedule(static) if (run_parallel(n))
       for (long j = 0; j < len; ++j) u[j] = a * u0[j] + b * (u[j] + dt * l[j]);
     }
     if constexpr (HasStiffSource<M>) m.stiff_source_step(g, U, t + 0.5 * dt, 0.5 * dt);
@@ -124,7 +125,7 @@ class Stepper {
   void validate(const M& m, Field<State>& U, real t) {
     const int n = op_.grid().n_cells;
     int bad = std::numeric_limits<int>::max();
-#pragma omp parallel for schedule(static) reduction(min : bad)
+#pragma omp parallel for schedule(static) reduction(min : bad) if (run_parallel(n))
     for (int i = 0; i < n; ++i)
       if (!m.admissible(m.prim_from_cons(U[i]))) bad = std::min(bad, i);
     if (bad != std::numeric_limits<int>::max()) fail(m, U, bad, m.prim_from_cons(U[bad]), t, stages_.size());
@@ -183,7 +184,7 @@ class Stepper {
 
   static void copy_interior(const Field<State>& from, Field<State>& to) {
     const int n = from.n_cells();
-#pragma omp parallel for schedule(static)
+#pragma omp parallel for schedule(static) if (run_parallel(n))
     for (int i = 0; i < n; ++i) to[i] = from[i];
   }
 

@@ -1,0 +1,27 @@
+#pragma once
+/// How a model is built from a run file. Each model specialises ModelSetup<M> in its own
+/// sim/<model>_setup.hpp; the generic run loop (sim/runner.hpp), the initial conditions
+/// and the boundaries only use these members:
+///
+///   static M make(const io::RunFile&, const CaseSetup&);
+///        the model's parameters (reads the `model` section and anything model-specific)
+///   static State primitive(const M&, const PlasmaPoint&, const CaseSetup&);
+///        the primitive state of a plasma at one point
+///   static bool perturb(const M&, const io::RunFile&, const CaseSetup&, Field<State>& W);
+///        model-specific initial perturbations (e.g. an eigenmode); false if the
+///        `initial.kind` is not one it handles
+///   static std::vector<io::ParameterValue> parameters(const M&, const CaseSetup&);
+///        resolved model parameters for the output file
+///   static FluxKind flux(const io::RunFile&, const M&);
+///        the numerical flux to use (resolving "auto", rejecting unavailable ones)
+#include "grid/grid.hpp"
+#include "io/output.hpp"
+#include "io/runfile.hpp"
+#include "sim/case.hpp"
+
+namespace tw {
+
+template <class M>
+struct ModelSetup;
+
+}  // namespace tw

@@ -1,0 +1,66 @@
+#include "sim/run.hpp"
+
+#include "sim/case.hpp"
+#include "sim/initial.hpp"
+#include "sim/mhd_setup.hpp"
+#include "sim/runner.hpp"
+
+namespace tw {
+
+namespace {
+
+/// The model catalogue: the `model.equations` and `model.form` choices. A new model adds
+/// its name here, its keys in build_schema() and a branch in dispatch().
+const std::vector<std::string>& equation_names() {
+  static const std::vector<std::string> n{"mhd"};
+  return n;
+}
+const std::vector<std::string>& form_names() {
+  static const std::vector<std::string> n{"nonlinear"};
+  return n;
+}
+
+io::Schema build_schema() {
+  io::Schema s;
+  io::Section& model = s.root().section("model", "which equations are solved");
+  model.choice("equations", equation_names(), "the model: ideal/resistive MHD").def("mhd");
+  model.choice("form", form_names(), "full nonlinear equations").def("nonlinear");
+  declare_case_keys(s);
+  std::vector<std::string> kinds = mhd_initial_kinds();
+  declare_initial_keys(s, kinds);
+  declare_mhd_keys(s);
+  return s;
+}
+
+template <class F>
+auto dispatch(const io::RunFile& rf, CaseSetup c, F&& f) {
+  c.equations = rf.get_string("model.equations");
+  c.form = rf.get_string("model.form");
+  if (c.equations == "mhd") {
+    CaseRunner<Mhd> runner(rf, std::move(c));
+    return f(runner);
+  }
+  rf.fail("model.equations", "model '" + c.equations + "' is not built into this tubewave");
+}
+
+}  // namespace
+
+const io::Schema& run_schema() {
+  static const io::Schema s = build_schema();
+  return s;
+}
+
+io::RunFile load_run_file(const std::string& path, const std::vector<std::string>& overrides) {
+  return io::RunFile::load(path, run_schema(), overrides);
+}
+
+RunSummary run_case(const io::RunFile& rf, const RunOptions& options) {
+  return dispatch(rf, read_case(rf, options.output_override),
+                  [&](auto& runner) { return runner.run(options); });
+}
+
+CheckReport check_case(const io::RunFile& rf, const std::string& output_override) {
+  return dispatch(rf, read_case(rf, output_override), [&](auto& runner) { return runner.check(); });
+}
+
+}  // namespace tw

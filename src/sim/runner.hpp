@@ -1,0 +1,369 @@
+#pragma once
+/// The generic run loop: builds a case for model M from a run file, runs it with output
+/// events at exact times, and writes the HDF5 file. Models plug in through
+/// ModelSetup<M> (sim/model_setup.hpp); nothing here knows a model's equations.
+#include <omp.h>
+
+#include <algorithm>
+#include <chrono>
+#include <cmath>
+#include <memory>
+#include <optional>
+#include <sstream>
+
+#include "core/plasma_params.hpp"
+#include "drive/boundary.hpp"
+#include "drive/driven_end.hpp"
+#include "io/output.hpp"
+#include "sim/case.hpp"
+#include "sim/initial.hpp"
+#include "sim/model_setup.hpp"
+#include "sim/run.hpp"
+#include "time/stepper.hpp"
+#include "tubewave/version.hpp"
+
+namespace tw {
+
+/// Output times k * interval, k = 0, 1, 2, ...
+class Cadence {
+ public:
+  explicit Cadence(real interval) : interval_(interval) {}
+  [[nodiscard]] real next_time() const { return static_cast<real>(next_) * interval_; }
+  /// True if t has reached the next output time (to round-off); advances past t.
+  bool due(real t) {
+    if (t < next_time() * (1 - 1e-12)) return false;
+    next_ = static_cast<long>(std::floor(t / interval_ * (1 + 1e-12))) + 1;
+    return true;
+  }
+  /// Number of outputs in [0, t_end], the first at t = 0.
+  [[nodiscard]] long count(real t_end) const {
+    return static_cast<long>(std::floor(t_end / interval_ * (1 + 1e-12))) + 1;
+  }
+
+ private:
+  real interval_;
+  long next_ = 0;
+};
+
+template <Model M>
+std::shared_ptr<const Boundary<M>> make_boundary(const io::RunFile& rf, const EndSpec& e) {
+  if (e.kind == "periodic") return std::make_shared<PeriodicBoundary<M>>();
+  if (e.kind == "zero-gradient") return std::make_shared<ZeroGradientBoundary<M>>();
+  if (e.kind == "conducting") return std::make_shared<ConductingBoundary<M>>();
+  if (e.kind == "driven") {
+    if constexpr (HasTransverseVelocity<M>) {
+      PlateMotion pm;
+      pm.amplitude = e.velocity_amplitude;
+      pm.frequency = e.frequency;
+      pm.ramp_time = e.ramp_periods / e.frequency;
+      if (e.polarization == "y") {
+        pm.e_y = 1;
+        pm.e_z = 0;
+      } else if (e.polarization == "z") {
+        pm.e_y = 0;
+        pm.e_z = 1;
+      } else {
+        pm.circular = e.polarization == "right" ? 1 : -1;
+      }
+      return std::make_shared<DrivenPlateBoundary<M>>(pm);
+    } else {
+      rf.fail(e.key + ".kind", std::string("the ") + M::name() + " model cannot be driven by a moving end");
+    }
+  }
+  rf.fail(e.key + ".kind", "unknown end kind '" + e.kind + "'");
+}
+
+template <Model M>
+class CaseRunner {
+ public:
+  using State = typename M::State;
+  static constexpr int N = M::n_vars;
+
+  CaseRunner(const io::RunFile& rf, CaseSetup c)
+      : rf_(rf), c_(std::move(c)), model_(ModelSetup<M>::make(rf, c_)), U_(c_.grid) {
+    const Grid& g = c_.grid;
+    // Initial state: the generic plasma, then the model's own perturbation.
+    const auto pts = initial_plasma(rf, c_);
+    Field<State> W(g);
+    for (int i = 0; i < g.n_cells; ++i)
+      W[i] = ModelSetup<M>::primitive(model_, pts[static_cast<std::size_t>(i)], c_);
+    if (!ModelSetup<M>::perturb(model_, rf, c_, W))
+      rf.fail("initial.kind", "the " + rf.get_string("initial.kind") + " initial state is not available for the " +
+                                  std::string(M::name()) + " model");
+    for (int i = 0; i < g.n_cells; ++i) {
+      if (!model_.admissible(W[i])) {
+        std::ostringstream msg;
+        msg << "the initial state is not physical at x = " << g.x_centre(i)
+            << " m (cell " << i << "): check densities, pressures and temperatures";
+        rf.fail("initial", msg.str());
+      }
+      U_[i] = model_.cons_from_prim(W[i]);
+    }
+    scheme_ = c_.scheme;
+    scheme_.flux = ModelSetup<M>::flux(rf, model_);
+    auto left = make_boundary<M>(rf, c_.left);
+    auto right = make_boundary<M>(rf, c_.right);
+    stepper_.emplace(FvOperator<M>(g, scheme_, left, right), c_.time);
+    // Probe interpolation: between the two cell centres around each probe.
+    for (real x : c_.output.probes) {
+      real s = (x - g.x_min) / g.dx() - 0.5;
+      int i0 = static_cast<int>(std::floor(s));
+      i0 = std::clamp(i0, 0, std::max(0, g.n_cells - 2));
+      const real w = std::clamp(s - i0, real(0), real(1));
+      probe_cell_.push_back(i0);
+      probe_weight_.push_back(g.n_cells > 1 ? w : 0);
+    }
+  }
+
+  [[nodiscard]] const M& model() const { return model_; }
+  [[nodiscard]] const Field<State>& state() const { return U_; }
+
+  CheckReport check() {
+    CheckReport r;
+    const Grid& g = c_.grid;
+    r.model = M::name();
+    r.cells = g.n_cells;
+    r.dx = g.dx();
+    const StepInfo info = stepper_->probe_dt(model_, U_, 0);
+    r.dt = info.dt;
+    r.limited_by = info.limited_by;
+    for (const auto& l : stepper_->all_limits(model_, U_, 0)) r.limits.emplace_back(l.name, l.dt);
+    if (c_.time.dt_max < std::numeric_limits<real>::infinity()) r.limits.emplace_back("max_dt", c_.time.dt_max);
+    r.t_end = c_.t_end;
+    r.estimated_steps = static_cast<long>(std::ceil(c_.t_end / r.dt));
+    r.memory_bytes = 7.0 * g.n_total() * sizeof(State);
+    const auto outs = M::output_info();
+    r.snapshots = Cadence(c_.output.snapshot_interval).count(c_.t_end) + 1;
+    r.probe_samples = c_.output.probes.empty() ? 0 : Cadence(c_.output.probe_interval).count(c_.t_end) + 1;
+    r.history_samples = Cadence(c_.output.history_interval).count(c_.t_end) + 1;
+    r.output_bytes = 8.0 * (static_cast<double>(r.snapshots) * outs.size() * g.n_cells +
+                            static_cast<double>(r.probe_samples) * outs.size() * c_.output.probes.size() +
+                            static_cast<double>(r.history_samples) * 2 * N);
+    r.output_file = c_.output.file;
+    if (r.estimated_steps > c_.max_steps)
+      r.warnings.push_back("the run needs about " + std::to_string(r.estimated_steps) +
+                           " steps, more than time.max_steps = " + std::to_string(c_.max_steps));
+    if (!c_.output.probes.empty() && c_.output.probe_interval < r.dt)
+      r.warnings.push_back("output.probe_interval is shorter than the time step: steps will be "
+                           "shortened to land on probe times");
+    if (scheme_.reconstruction == Reconstruction::weno5 && c_.time.integrator == IntegratorKind::ssp_rk2)
+      r.warnings.push_back("weno5 is fifth order in space; ssp-rk3 keeps its time error comparable");
+    if (scheme_.reconstruction == Reconstruction::plm && scheme_.limiter == Limiter::none)
+      r.warnings.push_back("unlimited slopes oscillate at discontinuities; use them for smooth waves only");
+    return r;
+  }
+
+  RunSummary run(const RunOptions& opt) {
+    using clock = std::chrono::steady_clock;
+    const Grid& g = c_.grid;
+    const auto t0 = clock::now();
+    io::OutputFile out(c_.output.file);
+    write_header(out);
+    const auto outs = M::output_info();
+    const auto cons = M::conserved_info();
+    std::vector<io::ColumnInfo> cols, hist;
+    for (const auto& v : outs) cols.push_back({v.name, c_.units.unit(v.units), v.description});
+    for (const auto& v : cons) {
+      hist.push_back({v.name + "_total", c_.units.unit(v.units), "integral over the tube: " + v.description});
+      hist.push_back({v.name + "_inflow", c_.units.unit(v.units),
+                      "time-integrated net flux in through both ends (total - initial total, if conserved)"});
+    }
+    io::Series snaps = out.create_series("snapshots", cols, g.n_cells, 1, true);
+    std::optional<io::Series> probes;
+    if (!c_.output.probes.empty())
+      probes = out.create_series("probes", cols, static_cast<int>(c_.output.probes.size()), 256, false);
+    io::Series history = out.create_series("history", hist, 1, 256, false);
+
+    Cadence snap_c(c_.output.snapshot_interval), probe_c(c_.output.probe_interval),
+        hist_c(c_.output.history_interval);
+    RunSummary sum;
+    sum.output_file = c_.output.file;
+    real t = 0, t_snap_last = -1;
+    long step = 0;
+    auto write_outputs = [&](bool force_snapshot) {
+      const bool s = snap_c.due(t) || force_snapshot;
+      const bool p = probes && probe_c.due(t);
+      const bool h = hist_c.due(t);
+      if (!(s || p || h)) return;
+      stepper_->validate(model_, U_, t);
+      if (s && t != t_snap_last) {
+        append_snapshot(snaps, t, step);
+        t_snap_last = t;
+        ++sum.snapshots;
+      }
+      if (p) {
+        append_probes(*probes, t, step);
+        ++sum.probe_samples;
+      }
+      if (h) append_history(history, t, step);
+    };
+    Progress prog;
+    prog.t_end = c_.t_end;
+    auto report = [&](bool final) {
+      if (!opt.progress) return;
+      prog.t = t;
+      prog.step = step;
+      prog.wall_seconds = std::chrono::duration<double>(clock::now() - t0).count();
+      prog.cell_updates_per_second = prog.wall_seconds > 0 ? g.n_cells * static_cast<double>(step) / prog.wall_seconds : 0;
+      prog.final = final;
+      opt.progress(prog);
+    };
+
+    std::string outcome = "completed", message = "the run reached its end time";
+    auto last_report = clock::now();
+    try {
+      write_outputs(true);
+      while (t < c_.t_end) {
+        if (opt.stop != nullptr && opt.stop->load()) {
+          outcome = "interrupted";
+          message = "stopped on request";
+          break;
+        }
+        if (step >= c_.max_steps) {
+          outcome = "failed";
+          message = "time.max_steps = " + std::to_string(c_.max_steps) + " reached at t = " + std::to_string(t) + " s";
+          break;
+        }
+        real next = c_.t_end;
+        const char* cap = "end time";
+        for (const auto* cd : {&snap_c, &probe_c, &hist_c}) {
+          if (cd == &probe_c && !probes) continue;
+          if (cd->next_time() < next) {
+            next = cd->next_time();
+            cap = "output time";
+          }
+        }
+        const StepInfo info = stepper_->step(model_, U_, t, next - t, cap);
+        t = info.dt == next - t ? next : t + info.dt;
+        ++step;
+        prog.dt = info.dt;
+        prog.limited_by = info.limited_by;
+        write_outputs(false);
+        if (opt.progress && clock::now() - last_report > std::chrono::duration<double>(opt.progress_interval_s)) {
+          report(false);
+          last_report = clock::now();
+        }
+      }
+      if (outcome != "failed") {
+        stepper_->validate(model_, U_, t);
+        if (t != t_snap_last) {
+          append_snapshot(snaps, t, step);
+          t_snap_last = t;
+          ++sum.snapshots;
+        }
+      }
+    } catch (const StateError& e) {
+      outcome = "failed";
+      message = e.what();
+      t = e.t_good();
+      if (t != t_snap_last) {  // the last good state, unless it is already the last snapshot
+        append_snapshot(snaps, t, step);
+        ++sum.snapshots;
+      }
+    }
+    const double wall = std::chrono::duration<double>(clock::now() - t0).count();
+    out.close_as(outcome, message, step, t, wall);
+    report(true);
+    sum.outcome = outcome;
+    sum.message = message;
+    sum.steps = step;
+    sum.t = t;
+    sum.wall_seconds = wall;
+    sum.cell_updates_per_second = wall > 0 ? g.n_cells * static_cast<double>(step) / wall : 0;
+    return sum;
+  }
+
+ private:
+  void write_header(io::OutputFile& out) {
+    io::Provenance p;
+    p.title = c_.title;
+    p.model = std::string(M::name()) + " (" + c_.form + ")";
+    p.run_file_name = rf_.source_name();
+    p.run_file_text = rf_.source_text();
+    for (const auto& o : rf_.overrides()) p.overrides += o + "\n";
+    p.resolved_run_file = rf_.resolved_yaml();
+    p.threads = omp_get_max_threads();
+    out.write_provenance(p);
+    std::vector<io::ParameterValue> params{
+        {"cells", static_cast<real>(c_.grid.n_cells), "1", "number of cells"},
+        {"cell_size", c_.grid.dx(), c_.units.unit("m"), "cell size dx"},
+        {"end_time", c_.t_end, c_.units.unit("s"), "simulated end time"},
+        {"cfl", c_.time.cfl, "1", "Courant number"},
+        {"runge_kutta_order", static_cast<real>(rk_order(c_.time.integrator)), "1", "order of the SSP-RK scheme"},
+        {"light_speed", c_.units.c, c_.units.unit("m/s"), "speed of light of the unit system"},
+        {"ion_mass", c_.plasma.ion_mass, c_.units.unit("kg"), "ion mass"},
+        {"ion_charge", static_cast<real>(c_.plasma.charge), "1", "ion charge number Z"},
+    };
+    for (auto& mp : ModelSetup<M>::parameters(model_, c_)) params.push_back(mp);
+    // Derived parameters of the background at the left end (SI runs with a field only).
+    const PlasmaPoint bg = c_.plasma.at(c_.grid.x_min, c_.units);
+    if (!c_.units.normalized && c_.plasma.field > 0 && bg.n_e > 0) {
+      PlasmaInput in;
+      in.n_e = bg.n_e;
+      in.B = c_.plasma.field;
+      in.ion_mass = c_.plasma.ion_mass;
+      in.Z = c_.plasma.charge;
+      in.Te_eV = bg.t_e / c_.units.energy_per_eV;
+      in.Ti_eV = bg.t_i / c_.units.energy_per_eV;
+      for (const auto& row : plasma_parameter_rows(derive_plasma_parameters(in)))
+        params.push_back({"background_" + row.key, row.value, row.units, row.description + " (background at the left end)"});
+    }
+    out.write_parameters(params);
+    const auto xc = c_.grid.centres(), xf = c_.grid.faces();
+    out.write_grid(xc, xf);
+  }
+
+  void append_snapshot(io::Series& s, real t, long step) {
+    const int n = c_.grid.n_cells;
+    const auto nout = M::output_info().size();
+    buf_.assign(nout * static_cast<std::size_t>(n), 0);
+    std::vector<real> o(nout);
+    for (int i = 0; i < n; ++i) {
+      model_.to_output(model_.prim_from_cons(U_[i]), o.data());
+      for (std::size_t k = 0; k < nout; ++k) buf_[k * static_cast<std::size_t>(n) + static_cast<std::size_t>(i)] = o[k];
+    }
+    s.append(t, step, buf_);
+  }
+
+  void append_probes(io::Series& s, real t, long step) {
+    const std::size_t np = c_.output.probes.size();
+    const auto nout = M::output_info().size();
+    buf_.assign(nout * np, 0);
+    std::vector<real> a(nout), b(nout);
+    const int n = c_.grid.n_cells;
+    for (std::size_t p = 0; p < np; ++p) {
+      const int i0 = probe_cell_[p];
+      const real w = probe_weight_[p];
+      model_.to_output(model_.prim_from_cons(U_[i0]), a.data());
+      model_.to_output(model_.prim_from_cons(U_[std::min(i0 + 1, n - 1)]), b.data());
+      for (std::size_t k = 0; k < nout; ++k) buf_[k * np + p] = (1 - w) * a[k] + w * b[k];
+    }
+    s.append(t, step, buf_);
+  }
+
+  void append_history(io::Series& s, real t, long step) {
+    const real dx = c_.grid.dx();
+    Vec<N> total{};
+    for (int i = 0; i < c_.grid.n_cells; ++i)  // serial, fixed order: reproducible sums
+      for (int k = 0; k < N; ++k) total[k] += U_[i][k];
+    const auto& bf = stepper_->boundary_flux_integrals();
+    buf_.clear();
+    for (int k = 0; k < N; ++k) {
+      buf_.push_back(total[k] * dx);
+      buf_.push_back(bf[0][k] - bf[1][k]);
+    }
+    s.append(t, step, buf_);
+  }
+
+  const io::RunFile& rf_;
+  CaseSetup c_;
+  M model_;
+  Field<State> U_;
+  SpatialScheme scheme_;
+  std::optional<Stepper<M>> stepper_;
+  std::vector<int> probe_cell_;
+  std::vector<real> probe_weight_;
+  std::vector<real> buf_;
+};
+
+}  // namespace tw
