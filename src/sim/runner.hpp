@@ -228,7 +228,8 @@ class CaseRunner {
         const char* cap = "end time";
         for (const auto* cd : {&snap_c, &probe_c, &hist_c}) {
           if (cd == &probe_c && !probes) continue;
-          if (cd->next_time() < next) {
+          // An output time within round-off of the end is the end (no sliver steps).
+          if (cd->next_time() < next && cd->next_time() < c_.t_end * (1 - 1e-12)) {
             next = cd->next_time();
             cap = "output time";
           }
