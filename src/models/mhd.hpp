@@ -207,6 +207,14 @@ struct Mhd {
     for (int k = 0; k < n_vars; ++k) out[k + 1] = W[k];
   }
 
+  [[nodiscard]] EnergyParts energy_density(const State& W) const {
+    EnergyParts e;
+    e.kinetic = 0.5 * W[RHO] * (W[VX] * W[VX] + W[VY] * W[VY] + W[VZ] * W[VZ]);
+    e.thermal = closure == Closure::adiabatic ? W[P] / (gamma - 1) : 0.0;
+    e.magnetic = magnetic_energy(W[BY], W[BZ]);
+    return e;
+  }
+
   /// Integrated conserved quantities per unit cross-section (for totals and budgets),
   /// in the order of U.
   static std::vector<VariableInfo> conserved_info() {
@@ -230,5 +238,6 @@ struct Mhd {
 static_assert(Model<Mhd>);
 static_assert(HasGradientFlux<Mhd>);
 static_assert(HasStepLimits<Mhd>);
+static_assert(HasEnergyDensity<Mhd>);
 
 }  // namespace tw

@@ -32,6 +32,8 @@
 ///   State source(const State& W, real x, real t) const;   local source term
 ///   void step_limits(real dx, const State& W, StepLimits& limits) const;
 ///        extra time-step limits of one cell (diffusion, whistler, ...)
+///   EnergyParts energy_density(const State& W) const;
+///        kinetic, thermal, magnetic and electric energy densities (energy budgets)
 #include <algorithm>
 #include <concepts>
 #include <limits>
@@ -54,6 +56,16 @@ struct VariableInfo {
   std::string name;         ///< e.g. "density"
   std::string units;        ///< SI unit, e.g. "m^-3"
   std::string description;  ///< one line
+};
+
+/// Energy densities of a primitive state [J/m^3]; their sum is the model's total energy
+/// density (for energy budgets).
+struct EnergyParts {
+  real kinetic = 0;   ///< bulk flow, all species
+  real thermal = 0;   ///< internal energy, all species
+  real magnetic = 0;  ///< |B|^2 / 2 mu0, including the constant B_x
+  real electric = 0;  ///< eps0 |E|^2 / 2 (zero where E is not a variable)
+  [[nodiscard]] real total() const { return kinetic + thermal + magnetic + electric; }
 };
 
 /// A named upper bound on the time step [s].
@@ -117,6 +129,11 @@ concept HasGradientFlux = requires(const M m, const typename M::State& s, real d
 template <class M>
 concept HasSource = requires(const M m, const typename M::State& s, real x, real t) {
   { m.source(s, x, t) } -> std::same_as<typename M::State>;
+};
+
+template <class M>
+concept HasEnergyDensity = requires(const M m, const typename M::State& s) {
+  { m.energy_density(s) } -> std::same_as<EnergyParts>;
 };
 
 template <class M>
