@@ -140,8 +140,25 @@ H5Reader::H5Reader(const std::string& path) : impl_(std::make_unique<Impl>()) {
 
 H5Reader H5Reader::open_complete_or_throw(const std::string& path) {
   H5Reader r(path);
+  const std::string format = r.has_attribute("/", "format") ? r.attr_string("/", "format") : "";
+  if (format != "tubewave-run") {
+    throw InputError(path + " is not a tubewave run output (format '" + format +
+                     "'; run outputs have format 'tubewave-run')");
+  }
   if (!r.is_complete()) {
-    throw InputError(path + " is incomplete (the run did not finish or is still running)");
+    std::string msg = path + " is incomplete (the run did not finish or is still running)";
+    if (r.has_attribute("/status", "outcome")) {
+      const std::string outcome = r.attr_string("/status", "outcome");
+      msg += ": outcome '" + outcome + "'";
+      if (r.has_attribute("/status", "simulated_time"))
+        msg += " at t = " + std::to_string(r.attr_real("/status", "simulated_time")) + " s";
+      const std::string why =
+          r.has_attribute("/status", "message") ? r.attr_string("/status", "message") : "";
+      if (!why.empty()) msg += " (" + why + ")";
+      if (outcome == "interrupted" || outcome == "running")
+        msg += "; continue the run with 'tubewave run --restart CHECKPOINT'";
+    }
+    throw InputError(msg);
   }
   return r;
 }
@@ -236,6 +253,18 @@ bool H5Reader::has_attribute(const std::string& object, const std::string& name)
   const htri_t r = H5Aexists_by_name(impl_->file.get(), object.c_str(), name.c_str(), H5P_DEFAULT);
   (void)H5Eclear2(H5E_DEFAULT);
   return r > 0;
+}
+
+std::vector<hsize_t> H5Reader::shape(const std::string& object) const {
+  Handle ds = impl_->open_dataset(object);
+  Handle space = impl_->own(H5Dget_space(ds.get()), Kind::dataspace, "get dataspace of", object);
+  const int rank = H5Sget_simple_extent_ndims(space.get());
+  impl_->check(rank < 0 ? -1 : 0, "get rank of", object);
+  std::vector<hsize_t> dims(static_cast<std::size_t>(rank));
+  if (rank > 0)
+    impl_->check(H5Sget_simple_extent_dims(space.get(), dims.data(), nullptr) < 0 ? -1 : 0,
+                 "get shape of", object);
+  return dims;
 }
 
 std::vector<double> H5Reader::read_real(const std::string& object,

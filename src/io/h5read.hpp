@@ -19,8 +19,12 @@ class H5Reader {
   /// Open `path` read-only. A file whose root "complete" attribute is not 1 opens too;
   /// ask is_complete().
   explicit H5Reader(const std::string& path);
-  /// Open `path` and throw InputError("PATH is incomplete (the run did not finish or is
-  /// still running)") unless its root attribute complete == 1.
+  /// Open a run output for post-processing: the one check every reader of results uses
+  /// (commands and tests alike). Throws InputError unless the root attribute format is
+  /// "tubewave-run" and complete == 1: "PATH is incomplete (the run did not finish or is
+  /// still running)", followed, when the file says, by its outcome, time and message and,
+  /// for an interrupted or running run, how to continue it. Only a run that reached its end
+  /// passes; a checkpoint (format "tubewave-checkpoint") never does.
   static H5Reader open_complete_or_throw(const std::string& path);
 
   H5Reader(H5Reader&&) noexcept;
@@ -46,6 +50,9 @@ class H5Reader {
   /// Names of the attributes of a group or dataset, in name order.
   [[nodiscard]] std::vector<std::string> attribute_names(const std::string& object) const;
   [[nodiscard]] bool has_attribute(const std::string& object, const std::string& name) const;
+
+  /// Shape of a dataset (empty for a scalar), without reading it.
+  [[nodiscard]] std::vector<hsize_t> shape(const std::string& object) const;
 
   /// A numeric dataset of any rank, converted to double, in row-major order. `dims`, when
   /// given, receives the shape (empty for a scalar).

@@ -6,11 +6,14 @@
 #include <array>
 #include <ctime>
 #include <filesystem>
+#include <random>
 #include <system_error>
 #include <utility>
 
 #include "core/error.hpp"
+#include "io/file_ops.hpp"
 #include "io/h5handle.hpp"
+#include "io/h5read.hpp"
 #include "tubewave/version.hpp"
 
 namespace tw::io {
@@ -158,6 +161,53 @@ std::string utc_now_iso8601() {
   return std::string(buf.data(), n);
 }
 
+/// 32 hexadecimal digits from the system's random source: tells runs apart, so a
+/// checkpoint is never continued into another run's output.
+std::string new_run_id() {
+  std::random_device rd;
+  std::string id;
+  constexpr const char* digits = "0123456789abcdef";
+  for (int i = 0; i < 4; ++i) {
+    const unsigned v = rd();
+    for (int k = 0; k < 8; ++k) id += digits[(v >> (4 * k)) & 0xFu];
+  }
+  return id;
+}
+
+/// A temporary name next to `path`: "<path>.tmp.<pid>.<6 hex digits>". The random part
+/// keeps a writer from colliding with a file left by a killed run that had the same PID
+/// (runs in containers often do).
+std::string unique_temporary_name(const std::string& path) {
+  return temporary_name(path) + "." + new_run_id().substr(0, 6);
+}
+
+/// The /status group: how the run ended (or "running" for a published partial copy).
+void write_status(hid_t root, const std::string& outcome, const std::string& message, long steps,
+                  real simulated_time, real wall_seconds, int restarts, const std::string& file) {
+  Handle g = create_group(root, "status", file, "/status");
+  write_string_attr(g.get(), "outcome", outcome, file, "/status");
+  write_string_attr(g.get(), "message", message, file, "/status");
+  write_int_attr(g.get(), "steps", steps, file, "/status");
+  write_real_attr(g.get(), "simulated_time", simulated_time, file, "/status");
+  write_real_attr(g.get(), "wall_seconds", wall_seconds, file, "/status");
+  write_int_attr(g.get(), "restarts", restarts, file, "/status");
+}
+
+/// Set the root attribute "complete" of an open file.
+void set_complete(hid_t root, int value, const std::string& file) {
+  Handle attr = own(H5Aopen(root, "complete", H5P_DEFAULT), Kind::attribute, file,
+                    "open attribute", "/@complete");
+  check(H5Awrite(attr.get(), H5T_NATIVE_INT, &value), file, "write attribute", "/@complete");
+}
+
+/// File access properties of every writable file: strong close, so H5Fclose really closes
+/// the file (no identifier can keep it open) before a rename.
+Handle strong_close_fapl(const std::string& file) {
+  Handle fapl = own(H5Pcreate(H5P_FILE_ACCESS), Kind::plist, file, "create file access properties");
+  check(H5Pset_fclose_degree(fapl.get(), H5F_CLOSE_STRONG), file, "set file close degree");
+  return fapl;
+}
+
 /// An extendable dataset of one series: [rows] (time, step) or [rows, width] (columns).
 struct SeriesDataset {
   Handle ds;
@@ -253,6 +303,52 @@ struct SeriesState {
   }
 };
 
+/// Append mode: open the existing series `st.group` (its name, file and width are set), check
+/// it has exactly the declared columns and width, and cut every dataset back to `keep` rows.
+/// `shown` is the output's final path, for messages.
+void reopen_series(SeriesState& st, hid_t root, const std::vector<ColumnInfo>& columns,
+                   std::size_t keep, const std::string& shown) {
+  const std::string& file = st.file;
+  const std::string prefix = "/" + st.group + "/";
+  const std::string where = "cannot continue the output '" + shown + "': ";
+  if (!link_exists(root, st.group))
+    throw InputError(where + "it has no series '" + st.group + "'");
+  st.group_handle =
+      own(H5Gopen2(root, st.group.c_str(), H5P_DEFAULT), Kind::group, file, "open group", "/" + st.group);
+  const hid_t g = st.group_handle.get();
+  H5G_info_t info{};
+  check(H5Gget_info(g, &info), file, "list group", "/" + st.group);
+  if (info.nlinks != columns.size() + 2)
+    throw InputError(where + "series '" + st.group + "' has " + std::to_string(info.nlinks - 2) +
+                     " columns, the run writes " + std::to_string(columns.size()));
+  auto open = [&](const std::string& name, int rank) {
+    SeriesDataset d;
+    d.object = prefix + name;
+    d.rank = rank;
+    if (!link_exists(g, name))
+      throw InputError(where + "series '" + st.group + "' has no column '" + name + "'");
+    d.ds = own(H5Dopen2(g, name.c_str(), H5P_DEFAULT), Kind::dataset, file, "open dataset", d.object);
+    Handle space = own(H5Dget_space(d.ds.get()), Kind::dataspace, file, "get dataspace of", d.object);
+    std::array<hsize_t, 2> dims{0, 0};
+    if (H5Sget_simple_extent_ndims(space.get()) != rank ||
+        H5Sget_simple_extent_dims(space.get(), dims.data(), nullptr) < 0)
+      throw InputError(where + "'" + d.object + "' does not have rank " + std::to_string(rank));
+    if (rank == 2 && dims[1] != static_cast<hsize_t>(st.width))
+      throw InputError(where + "'" + d.object + "' has width " + std::to_string(dims[1]) +
+                       ", the run writes " + std::to_string(st.width));
+    if (dims[0] < keep)
+      throw InputError(where + "'" + d.object + "' has " + std::to_string(dims[0]) +
+                       " rows, the checkpoint needs " + std::to_string(keep));
+    const std::array<hsize_t, 2> extent{keep, static_cast<hsize_t>(st.width)};
+    check(H5Dset_extent(d.ds.get(), extent.data()), file, "cut back", d.object);
+    return d;
+  };
+  st.time = open("time", 1);
+  st.step = open("step", 1);
+  for (const ColumnInfo& c : columns) st.columns.push_back(open(c.name, 2));
+  st.rows_written = keep;
+}
+
 }  // namespace
 
 struct Series::Impl : SeriesState {};
@@ -263,6 +359,10 @@ struct OutputFile::Impl {
   Handle file;
   bool created = false;  ///< the temporary file is ours (so ours to remove)
   bool closed = false;   ///< close_as() completed: the file now lives at final_path
+  bool appending = false;               ///< append mode: the header exists already
+  std::string run_id;                   ///< root attribute run_id
+  int restarts = 0;                     ///< written to /status
+  std::map<std::string, std::size_t> resume_rows;  ///< append mode: rows each series keeps
   std::vector<std::shared_ptr<SeriesState>> series;
 
   Impl(std::string final, std::string temp)
@@ -285,6 +385,12 @@ struct OutputFile::Impl {
       throw InternalError(std::string(what) + " called after close_as() on output file '" +
                           final_path + "'");
     }
+  }
+
+  void require_new(const char* what) const {
+    if (appending)
+      throw InternalError(std::string(what) + " called on output file '" + final_path +
+                          "' opened to continue a run (its header exists)");
   }
 
   void write_buffered_rows() {
@@ -320,8 +426,9 @@ const std::string& Series::name() const {
 
 OutputFile::OutputFile(std::string final_path) {
   h5::silence_error_printing();
-  const std::string temp = final_path + ".tmp." + std::to_string(::getpid());
+  const std::string temp = unique_temporary_name(final_path);
   impl_ = std::make_unique<Impl>(std::move(final_path), temp);
+  impl_->run_id = new_run_id();
   const std::string& fin = impl_->final_path;
 
   // The output directory must exist: creating directories is the user's decision.
@@ -336,10 +443,7 @@ OutputFile::OutputFile(std::string final_path) {
     throw RunError("cannot create output file '" + fin + "': a directory of that name exists");
   }
 
-  Handle fapl = own(H5Pcreate(H5P_FILE_ACCESS), Kind::plist, temp, "create file access properties");
-  // Strong close: H5Fclose really closes the file (no identifier can keep it open) before
-  // the rename.
-  check(H5Pset_fclose_degree(fapl.get(), H5F_CLOSE_STRONG), temp, "set file close degree");
+  Handle fapl = strong_close_fapl(temp);
   Handle fcpl = own(H5Pcreate(H5P_FILE_CREATE), Kind::plist, temp, "create file properties");
   check(H5Pset_link_creation_order(fcpl.get(), H5P_CRT_ORDER_TRACKED | H5P_CRT_ORDER_INDEXED), temp,
         "set link creation order");
@@ -354,15 +458,66 @@ OutputFile::OutputFile(std::string final_path) {
   write_int32_attr(root, "format_version", layout_version, temp, "/");
   write_int32_attr(root, "complete", 0, temp, "/");
   write_string_attr(root, "created", utc_now_iso8601(), temp, "/");
+  write_string_attr(root, "run_id", impl_->run_id, temp, "/");
+}
+
+OutputFile::OutputFile(std::string final_path, const ResumePoint& resume) {
+  h5::silence_error_printing();
+  const std::string temp = unique_temporary_name(final_path);
+  impl_ = std::make_unique<Impl>(std::move(final_path), temp);
+  Impl& im = *impl_;
+  const std::string& fin = im.final_path;
+  im.appending = true;
+  im.run_id = resume.run_id;
+  im.restarts = resume.restarts;
+  im.resume_rows = resume.series_rows;
+
+  // Check the file read-only before copying it: a wrong file is refused untouched.
+  {
+    const H5Reader r(fin);
+    if (!r.has_attribute("/", "format") || r.attr_string("/", "format") != "tubewave-run")
+      throw InputError("cannot continue the output '" + fin + "': it is not a tubewave run file");
+    const std::string id = r.has_attribute("/", "run_id") ? r.attr_string("/", "run_id") : "";
+    if (id != resume.run_id)
+      throw InputError("cannot continue the output '" + fin + "': it belongs to another run (run_id '" +
+                       id + "', the checkpoint's run is '" + resume.run_id +
+                       "'); give the output that was written with the checkpoint (-o FILE)");
+    for (const auto& [group, rows] : resume.series_rows) {
+      const std::string t = "/" + group + "/time";
+      const bool present = r.is_dataset(t) && r.shape(t).size() == 1;
+      const std::size_t have = present ? r.shape(t)[0] : 0;
+      if (!present || have < rows)
+        throw InputError("cannot continue the output '" + fin + "': series '" + group + "' has " +
+                         std::to_string(have) + " rows, the checkpoint needs " +
+                         std::to_string(rows) + " (an older copy of the output?)");
+    }
+  }
+  copy_new_file(fin, temp);
+  im.created = true;
+  Handle fapl = strong_close_fapl(temp);
+  im.file = own(H5Fopen(temp.c_str(), H5F_ACC_RDWR, fapl.get()), Kind::file, temp, "open");
+  const hid_t root = im.file.get();
+  if (link_exists(root, "status"))
+    check(H5Ldelete(root, "status", H5P_DEFAULT), temp, "remove", "/status");
+  set_complete(root, 0, temp);
 }
 
 OutputFile::~OutputFile() = default;
 
 const std::string& OutputFile::final_path() const { return impl_->final_path; }
 const std::string& OutputFile::temporary_path() const { return impl_->temp_path; }
+const std::string& OutputFile::run_id() const { return impl_->run_id; }
+bool OutputFile::appending() const { return impl_->appending; }
+
+std::map<std::string, std::size_t> OutputFile::series_rows() const {
+  std::map<std::string, std::size_t> rows;
+  for (const auto& s : impl_->series) rows[s->group] = s->rows_written + s->rows_buffered();
+  return rows;
+}
 
 void OutputFile::write_provenance(const Provenance& p) {
   impl_->require_open("write_provenance");
+  impl_->require_new("write_provenance");
   const std::string& file = impl_->temp_path;
   const hid_t root = impl_->file.get();
   TW_CHECK(!link_exists(root, "provenance"), "provenance written twice to " + file);
@@ -398,6 +553,7 @@ void OutputFile::write_provenance(const Provenance& p) {
 
 void OutputFile::write_parameters(const std::vector<ParameterValue>& params) {
   impl_->require_open("write_parameters");
+  impl_->require_new("write_parameters");
   const std::string& file = impl_->temp_path;
   const hid_t root = impl_->file.get();
   Handle g = link_exists(root, "parameters")
@@ -420,6 +576,7 @@ void OutputFile::write_parameters(const std::vector<ParameterValue>& params) {
 
 void OutputFile::write_grid(std::span<const real> x_centres, std::span<const real> x_faces) {
   impl_->require_open("write_grid");
+  impl_->require_new("write_grid");
   TW_CHECK(x_faces.size() == x_centres.size() + 1, "grid has " + std::to_string(x_centres.size()) +
                                                        " cells but " +
                                                        std::to_string(x_faces.size()) + " faces");
@@ -438,7 +595,9 @@ Series OutputFile::create_series(const std::string& group, const std::vector<Col
   const std::string& file = impl_->temp_path;
   const hid_t root = impl_->file.get();
   TW_CHECK(valid_link_name(group), "invalid series name '" + group + "'");
-  TW_CHECK(!link_exists(root, group), "'" + group + "' already exists in " + file);
+  TW_CHECK(impl_->appending || !link_exists(root, group), "'" + group + "' already exists in " + file);
+  for (const auto& s : impl_->series)
+    TW_CHECK(s->group != group, "series '" + group + "' declared twice in " + file);
   TW_CHECK(!columns.empty(), "series '" + group + "' has no columns");
   TW_CHECK(width >= 1, "series '" + group + "' has width " + std::to_string(width));
   TW_CHECK(rows_per_chunk >= 1,
@@ -457,6 +616,18 @@ Series OutputFile::create_series(const std::string& group, const std::vector<Col
   state->group = group;
   state->width = width;
   state->rows_per_chunk = rows_per_chunk;
+  if (impl_->appending) {
+    const auto keep = impl_->resume_rows.find(group);
+    if (keep == impl_->resume_rows.end())
+      throw InputError("cannot continue the output '" + impl_->final_path + "': the checkpoint has no record of series '" +
+                       group + "' (written by another version of tubewave?)");
+    reopen_series(*state, root, columns, keep->second, impl_->final_path);
+    state->column_buffers.resize(columns.size());
+    impl_->series.push_back(state);
+    Series s;
+    s.impl_ = std::move(state);
+    return s;
+  }
   const std::string prefix = "/" + group + "/";
   state->group_handle = create_group(root, group, file, "/" + group);
   const hid_t g = state->group_handle.get();
@@ -515,6 +686,31 @@ void OutputFile::flush() {
   impl_->flush_file();
 }
 
+void OutputFile::publish_partial(const std::string& message, long steps, real simulated_time,
+                                 real wall_seconds) {
+  impl_->require_open("publish_partial");
+  Impl& im = *impl_;
+  im.write_buffered_rows();
+  im.flush_file();
+  // The flushed file on disk is a consistent HDF5 file; copy it, mark the copy as a run in
+  // progress, and put it in place atomically. The open file is not touched.
+  const std::string copy = unique_temporary_name(im.final_path);
+  try {
+    copy_new_file(im.temp_path, copy);
+    {
+      Handle fapl = strong_close_fapl(copy);
+      Handle f = own(H5Fopen(copy.c_str(), H5F_ACC_RDWR, fapl.get()), Kind::file, copy, "open");
+      write_status(f.get(), "running", message, steps, simulated_time, wall_seconds, im.restarts, copy);
+      check(f.close(), copy, "close");
+    }
+    replace_file(copy, im.final_path);
+  } catch (...) {
+    std::error_code ec;
+    fs::remove(copy, ec);
+    throw;
+  }
+}
+
 void OutputFile::close_as(const std::string& outcome, const std::string& message, long steps,
                           real simulated_time, real wall_seconds) {
   impl_->require_open("close_as");
@@ -525,33 +721,16 @@ void OutputFile::close_as(const std::string& outcome, const std::string& message
   const hid_t root = im.file.get();
 
   im.write_buffered_rows();
-  {
-    Handle g = create_group(root, "status", file, "/status");
-    write_string_attr(g.get(), "outcome", outcome, file, "/status");
-    write_string_attr(g.get(), "message", message, file, "/status");
-    write_int_attr(g.get(), "steps", steps, file, "/status");
-    write_real_attr(g.get(), "simulated_time", simulated_time, file, "/status");
-    write_real_attr(g.get(), "wall_seconds", wall_seconds, file, "/status");
-  }
+  write_status(root, outcome, message, steps, simulated_time, wall_seconds, im.restarts, file);
   for (auto& s : im.series) s->close();
   // Everything else reaches the disk before "complete" says so.
   im.flush_file();
   if (outcome == "completed") {
-    Handle attr = own(H5Aopen(root, "complete", H5P_DEFAULT), Kind::attribute, file,
-                      "open attribute", "/@complete");
-    const int one = 1;
-    check(H5Awrite(attr.get(), H5T_NATIVE_INT, &one), file, "write attribute", "/@complete");
-    attr.reset();
+    set_complete(root, 1, file);
     im.flush_file();
   }
   check(im.file.close(), file, "close");
-
-  std::error_code ec;
-  fs::rename(im.temp_path, im.final_path, ec);
-  if (ec) {
-    throw RunError("cannot rename '" + im.temp_path + "' to '" + im.final_path +
-                   "': " + ec.message());
-  }
+  replace_file(im.temp_path, im.final_path);
   im.closed = true;
 }
 
