@@ -2,8 +2,11 @@
 #include <omp.h>
 #include <unistd.h>
 
+#include <atomic>
+#include <csignal>
 #include <cstdio>
 #include <iostream>
+#include <optional>
 #include <sstream>
 
 #include "cli/args.hpp"
@@ -37,6 +40,31 @@ std::string human_seconds(double s) {
   return o.str();
 }
 
+// Stop requests. The handlers only store to lock-free atomics (async-signal-safe); the time
+// loop reads `stop` between steps, writes a checkpoint and ends with exit code 3.
+std::atomic<bool> stop_requested{false};
+std::atomic<int> stop_signal{0};
+static_assert(std::atomic<bool>::is_always_lock_free && std::atomic<int>::is_always_lock_free);
+
+extern "C" void on_stop_signal(int sig) {
+  stop_signal.store(sig);
+  stop_requested.store(true);
+}
+
+/// SIGTERM and SIGUSR1 (what batch schedulers send before a time limit) and SIGINT (Ctrl-C)
+/// ask the run to stop after the current step. SIGINT is reset to its default action once
+/// caught, so a second Ctrl-C ends the process at once (the output is then left under its
+/// temporary name, never looking complete).
+void install_stop_handlers() {
+  for (int sig : {SIGTERM, SIGUSR1, SIGINT}) {
+    struct sigaction sa {};
+    sa.sa_handler = on_stop_signal;
+    sigemptyset(&sa.sa_mask);
+    sa.sa_flags = SA_RESTART | (sig == SIGINT ? SA_RESETHAND : 0);
+    sigaction(sig, &sa, nullptr);
+  }
+}
+
 void apply_threads(const ArgParser& a) {
   if (!a.has("threads")) return;
   const long n = a.int_value("threads");
@@ -47,12 +75,18 @@ void apply_threads(const ArgParser& a) {
 }  // namespace
 
 int cmd_run(std::span<const std::string> args) {
-  ArgParser a("run", "FILE.yaml [-o OUT.h5] [--set key.path=value ...] [--threads N]",
+  ArgParser a("run", "FILE.yaml [-o OUT.h5] [--set key.path=value ...] [--threads N]\n"
+              "       tubewave run --restart CHECKPOINT.h5 [FILE.yaml] [-o OUT.h5] [--set ...] [--threads N]",
               "Run a case described by a run file and write its HDF5 output. The output is "
               "written under a temporary name and renamed when the run ends; a run that "
               "fails writes its last good state, says so and exits with code 1. Bad input "
-              "exits with code 2 before anything is written.");
-  a.positional("FILE.yaml", "the run file");
+              "exits with code 2 before anything is written. SIGTERM, SIGINT or SIGUSR1 stop "
+              "the run after the current step: the output is closed as interrupted, a "
+              "checkpoint is written (checkpoint.file, default NAME.checkpoint.h5) and the "
+              "exit code is 3. --restart continues from a checkpoint, appending to the same "
+              "output; the result is bitwise the one of an uninterrupted run.");
+  a.positional("FILE.yaml", "the run file (with --restart: optional, must be the checkpoint's case)", false);
+  a.option("restart", "CHECKPOINT.h5", "continue the run saved in a checkpoint");
   a.option("output", "OUT.h5", "output file (default: output.file, or the run file's name with .h5)");
   a.short_alias('o', "output");
   a.option("set", "KEY=VALUE", "override one run-file key, e.g. --set time.end=1e-5", true);
@@ -60,10 +94,16 @@ int cmd_run(std::span<const std::string> args) {
   a.flag("quiet", "no progress output");
   if (!a.parse(args)) return 0;
   apply_threads(a);
-  const io::RunFile rf = load_run_file(a.positional_value("FILE.yaml"), a.values("set"));
+  if (!a.has("restart") && !a.has("FILE.yaml"))
+    throw InputError("missing argument FILE.yaml (or --restart CHECKPOINT.h5);" + a.help_hint());
+  std::optional<io::RunFile> rf;
+  if (!a.has("restart")) rf = load_run_file(a.positional_value("FILE.yaml"), a.values("set"));
 
   RunOptions opt;
   if (a.has("output")) opt.output_override = a.value("output");
+  install_stop_handlers();
+  opt.stop = &stop_requested;
+  opt.stop_signal = &stop_signal;
   const bool tty = ::isatty(STDERR_FILENO) != 0;
   if (!a.has("quiet")) {
     opt.progress_interval_s = tty ? 0.25 : 10.0;
@@ -82,9 +122,21 @@ int cmd_run(std::span<const std::string> args) {
       }
     };
   }
-  std::cerr << "tubewave: running " << rf.source_name() << " with " << omp_get_max_threads()
-            << " thread(s)\n";
-  const RunSummary s = run_case(rf, opt);
+  RunSummary s;
+  if (rf) {
+    std::cerr << "tubewave: running " << rf->source_name() << " with " << omp_get_max_threads()
+              << " thread(s)\n";
+    s = run_case(*rf, opt);
+  } else {
+    RestartArgs r;
+    r.checkpoint = a.value("restart");
+    if (a.has("FILE.yaml")) r.run_file = a.positional_value("FILE.yaml");
+    r.overrides = a.values("set");
+    r.output = opt.output_override;
+    std::cerr << "tubewave: continuing from " << r.checkpoint << " with " << omp_get_max_threads()
+              << " thread(s)\n";
+    s = restart_case(r, opt);
+  }
   std::ostringstream msg;
   msg.precision(4);
   msg << "tubewave: " << s.outcome << ": " << s.steps << " steps to t = " << s.t << " s in "
@@ -92,6 +144,9 @@ int cmd_run(std::span<const std::string> args) {
       << "tubewave: wrote " << s.output_file << " (" << s.snapshots << " snapshots, "
       << s.probe_samples << " probe samples)\n";
   if (s.outcome != "completed") msg << "tubewave: " << s.message << "\n";
+  if (!s.checkpoint_file.empty())
+    msg << "tubewave: checkpoint written to " << s.checkpoint_file
+        << "; continue with: tubewave run --restart " << s.checkpoint_file << "\n";
   std::cout << msg.str();
   if (s.outcome == "completed") return exit_code::ok;
   if (s.outcome == "interrupted") return exit_code::interrupted;

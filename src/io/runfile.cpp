@@ -972,6 +972,48 @@ void emit(YAML::Emitter& out, const Value& v) {
 
 }  // namespace
 
+namespace {
+
+/// One value as text: numbers in the form resolved_yaml() writes them, lists in brackets.
+std::string value_text(const Value& v) {
+  switch (v.kind) {
+    case Value::Kind::real:
+      return format_real(v.r);
+    case Value::Kind::integer:
+      return std::to_string(v.i);
+    case Value::Kind::boolean:
+      return v.b ? "true" : "false";
+    case Value::Kind::text:
+      return v.s;
+    case Value::Kind::list:
+    case Value::Kind::map: {
+      std::string t = "[";
+      for (std::size_t i = 0; i < v.items.size(); ++i) t += (i ? ", " : "") + value_text(v.items[i]);
+      return t + "]";
+    }
+  }
+  return "";
+}
+
+void flatten(const Value& v, const std::string& path, std::vector<std::pair<std::string, std::string>>& out) {
+  if (v.kind == Value::Kind::map) {
+    for (const auto& c : v.items) flatten(c, join(path, c.spec->name), out);
+  } else if (v.kind == Value::Kind::list && v.spec->type == KeyType::section_list) {
+    out.emplace_back(path, std::to_string(v.items.size()) + " element(s)");
+    for (std::size_t i = 0; i < v.items.size(); ++i) flatten(v.items[i], indexed(path, i), out);
+  } else {
+    out.emplace_back(path, value_text(v));
+  }
+}
+
+}  // namespace
+
+std::vector<std::pair<std::string, std::string>> RunFile::values() const {
+  std::vector<std::pair<std::string, std::string>> out;
+  flatten(impl_->root, "", out);
+  return out;
+}
+
 std::string RunFile::resolved_yaml() const {
   YAML::Emitter out;
   emit(out, impl_->root);

@@ -118,6 +118,10 @@ class RunFile {
   [[nodiscard]] const std::vector<std::string>& overrides() const;
   /// The resolved document: overrides applied and defaults filled in, as YAML text.
   [[nodiscard]] std::string resolved_yaml() const;
+  /// Every value of the resolved document as (key path, value text), in declaration order:
+  /// "grid.cells" -> "400", "plasma.flow" -> "[0, 0, 0]"; a list of sections gives its
+  /// length, then each element's keys ("output.lines[0].x"). For comparing two run files.
+  [[nodiscard]] std::vector<std::pair<std::string, std::string>> values() const;
 
  private:
   struct Impl;

@@ -1,6 +1,7 @@
 #include "sim/run.hpp"
 
 #include "sim/case.hpp"
+#include "sim/checkpoint.hpp"
 #include "sim/initial.hpp"
 #include "sim/mhd_setup.hpp"
 #include "sim/runner.hpp"
@@ -26,6 +27,7 @@ io::Schema build_schema() {
   model.choice("equations", equation_names(), "the model: ideal/resistive MHD").def("mhd");
   model.choice("form", form_names(), "full nonlinear equations").def("nonlinear");
   declare_case_keys(s);
+  declare_checkpoint_keys(s);
   std::vector<std::string> kinds = mhd_initial_kinds();
   declare_initial_keys(s, kinds);
   declare_mhd_keys(s);
@@ -57,6 +59,17 @@ io::RunFile load_run_file(const std::string& path, const std::vector<std::string
 RunSummary run_case(const io::RunFile& rf, const RunOptions& options) {
   return dispatch(rf, read_case(rf, options.output_override),
                   [&](auto& runner) { return runner.run(options); });
+}
+
+RunSummary restart_case(const RestartArgs& args, const RunOptions& options) {
+  RestartRequest req;
+  req.checkpoint = args.checkpoint;
+  req.run_file = args.run_file;
+  req.overrides = args.overrides;
+  req.output_override = args.output;
+  const RestartPlan plan = plan_restart(req, run_schema());
+  return dispatch(plan.run_file, read_case(plan.run_file, plan.output_file),
+                  [&](auto& runner) { return runner.run(options, &plan); });
 }
 
 CheckReport check_case(const io::RunFile& rf, const std::string& output_override) {

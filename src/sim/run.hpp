@@ -32,6 +32,7 @@ struct RunOptions {
   std::function<void(const Progress&)> progress;  ///< may be empty
   double progress_interval_s = 0.5;              ///< wall seconds between reports
   const std::atomic<bool>* stop = nullptr;        ///< set asynchronously to stop the run
+  const std::atomic<int>* stop_signal = nullptr;  ///< the signal that set `stop` (0: none)
 };
 
 struct RunSummary {
@@ -43,12 +44,28 @@ struct RunSummary {
   double wall_seconds = 0;
   double cell_updates_per_second = 0;
   long snapshots = 0, probe_samples = 0;
+  long checkpoints = 0;          ///< checkpoints written by this segment of the run
+  std::string checkpoint_file;   ///< the checkpoint written when the run was stopped, else ""
+  int restarts = 0;              ///< times the run was continued from a checkpoint
 };
 
 /// Run a validated case and write its output file. Bad input in the model-dependent parts
 /// throws ConfigError before anything is written; a failing run writes its last good
 /// state and returns outcome "failed".
 RunSummary run_case(const io::RunFile& rf, const RunOptions& options = {});
+
+/// What `tubewave run --restart CHECKPOINT [FILE.yaml] [--set ...] [-o OUT]` was given.
+struct RestartArgs {
+  std::string checkpoint;
+  std::string run_file;                ///< optional; must describe the checkpoint's case
+  std::vector<std::string> overrides;  ///< may change only checkpoint.*, time.max_steps, ...
+  std::string output;                  ///< the output to continue (default: as recorded)
+};
+
+/// Continue a run from a checkpoint, appending to its output (sim/checkpoint.hpp). A
+/// checkpoint of another build, model or grid, or an output of another run, is refused with
+/// InputError before anything is written.
+RunSummary restart_case(const RestartArgs& args, const RunOptions& options = {});
 
 /// What `tubewave check` reports, without running.
 struct CheckReport {

@@ -7,6 +7,7 @@
 #include <algorithm>
 #include <chrono>
 #include <cmath>
+#include <filesystem>
 #include <memory>
 #include <optional>
 #include <sstream>
@@ -15,7 +16,9 @@
 #include "drive/boundary.hpp"
 #include "drive/driven_end.hpp"
 #include "io/output.hpp"
+#include "sim/cadence.hpp"
 #include "sim/case.hpp"
+#include "sim/checkpoint.hpp"
 #include "sim/initial.hpp"
 #include "sim/model_setup.hpp"
 #include "sim/run.hpp"
@@ -23,27 +26,6 @@
 #include "tubewave/version.hpp"
 
 namespace tw {
-
-/// Output times k * interval, k = 0, 1, 2, ...
-class Cadence {
- public:
-  explicit Cadence(real interval) : interval_(interval) {}
-  [[nodiscard]] real next_time() const { return static_cast<real>(next_) * interval_; }
-  /// True if t has reached the next output time (to round-off); advances past t.
-  bool due(real t) {
-    if (t < next_time() * (1 - 1e-12)) return false;
-    next_ = static_cast<long>(std::floor(t / interval_ * (1 + 1e-12))) + 1;
-    return true;
-  }
-  /// Number of outputs in [0, t_end], the first at t = 0.
-  [[nodiscard]] long count(real t_end) const {
-    return static_cast<long>(std::floor(t_end / interval_ * (1 + 1e-12))) + 1;
-  }
-
- private:
-  real interval_;
-  long next_ = 0;
-};
 
 template <Model M>
 std::shared_ptr<const Boundary<M>> make_boundary(const io::RunFile& rf, const EndSpec& e) {
@@ -119,6 +101,7 @@ class CaseRunner {
   [[nodiscard]] const Field<State>& state() const { return U_; }
 
   CheckReport check() {
+    (void)read_checkpoint_spec(rf_, c_.output.file);  // its keys are validated here too
     CheckReport r;
     const Grid& g = c_.grid;
     r.model = M::name();
@@ -153,12 +136,17 @@ class CaseRunner {
     return r;
   }
 
-  RunSummary run(const RunOptions& opt) {
+  /// Run the case, or continue it from a checkpoint (`restart`, checked by plan_restart):
+  /// the output is then reopened for appending and the loop starts where the checkpoint left.
+  RunSummary run(const RunOptions& opt, const RestartPlan* restart = nullptr) {
     using clock = std::chrono::steady_clock;
     const Grid& g = c_.grid;
     const auto t0 = clock::now();
-    io::OutputFile out(c_.output.file);
-    write_header(out);
+    const CheckpointSpec ckpt = read_checkpoint_spec(rf_, c_.output.file);
+    if (restart) check_checkpoint_case(restart->data, restart->checkpoint_path, model_label(), N, g);
+    io::OutputFile out = restart ? io::OutputFile(c_.output.file, resume_point(restart->data))
+                                 : io::OutputFile(c_.output.file);
+    if (!out.appending()) write_header(out);
     const auto outs = M::output_info();
     const auto cons = M::conserved_info();
     std::vector<io::ColumnInfo> cols, hist;
@@ -180,6 +168,38 @@ class CaseRunner {
     sum.output_file = c_.output.file;
     real t = 0, t_snap_last = -1;
     long step = 0;
+    // What checkpoints save and a restart puts back, by name (sim/checkpoint.hpp).
+    const LoopVariables loop{&t, &step, &t_snap_last,
+                             {{"snapshots", &snap_c}, {"probes", &probe_c}, {"history", &hist_c}},
+                             {{"snapshots", &sum.snapshots}, {"probe_samples", &sum.probe_samples}},
+                             {}};
+    double wall_before = 0;  // wall time of the run's earlier segments
+    if (restart) {
+      restore_run_state(restart->data, restart->checkpoint_path, U_, *stepper_, loop);
+      wall_before = restart->data.wall_seconds;
+      sum.restarts = restart->data.restarts + 1;
+    }
+    const long step0 = step;
+    auto wall_now = [&] { return std::chrono::duration<double>(clock::now() - t0).count(); };
+    CheckpointClock ckpt_clock(ckpt, t, 0.0);
+    auto checkpoint_data = [&](const std::string& reason) {
+      io::CheckpointData d;
+      d.reason = reason;
+      d.model = model_label();
+      d.x_min = g.x_min;
+      d.length = g.length;
+      d.run_id = out.run_id();
+      d.run_file_name = rf_.source_name();
+      d.run_file_text = rf_.source_text();
+      d.resolved_run_file = rf_.resolved_yaml();
+      d.overrides = rf_.overrides();
+      d.output_file = std::filesystem::absolute(c_.output.file).string();
+      d.wall_seconds = wall_before + wall_now();
+      d.restarts = sum.restarts;
+      capture_run_state(U_, *stepper_, loop, d);
+      d.series_rows = out.series_rows();
+      return d;
+    };
     auto write_outputs = [&](bool force_snapshot) {
       const bool s = snap_c.due(t) || force_snapshot;
       const bool p = probes && probe_c.due(t);
@@ -204,19 +224,25 @@ class CaseRunner {
       prog.t = t;
       prog.step = step;
       prog.wall_seconds = std::chrono::duration<double>(clock::now() - t0).count();
-      prog.cell_updates_per_second = prog.wall_seconds > 0 ? g.n_cells * static_cast<double>(step) / prog.wall_seconds : 0;
+      prog.cell_updates_per_second = prog.wall_seconds > 0 ? g.n_cells * static_cast<double>(step - step0) / prog.wall_seconds : 0;
       prog.final = final;
       opt.progress(prog);
     };
 
     std::string outcome = "completed", message = "the run reached its end time";
+    std::optional<io::CheckpointData> stop_checkpoint;
     auto last_report = clock::now();
     try {
-      write_outputs(true);
+      if (!restart) write_outputs(true);
       while (t < c_.t_end) {
         if (opt.stop != nullptr && opt.stop->load()) {
+          const int sig = opt.stop_signal != nullptr ? opt.stop_signal->load() : 0;
           outcome = "interrupted";
-          message = "stopped on request";
+          message = std::string("stopped on request") + (sig != 0 ? " (" + signal_name(sig) + ")" : "") +
+                    "; checkpoint " + ckpt.file;
+          // Taken before the snapshot of the stop time below: a continued run drops that row.
+          stepper_->validate(model_, U_, t);
+          stop_checkpoint = checkpoint_data(sig != 0 ? "stopped by " + signal_name(sig) : "stopped on request");
           break;
         }
         if (step >= c_.max_steps) {
@@ -240,6 +266,17 @@ class CaseRunner {
         prog.dt = info.dt;
         prog.limited_by = info.limited_by;
         write_outputs(false);
+        const char* why = t < c_.t_end ? ckpt_clock.due(t, wall_now()) : nullptr;
+        if (why != nullptr) {  // between steps: a checkpoint never shortens a step
+          stepper_->validate(model_, U_, t);
+          const io::CheckpointData d = checkpoint_data(why);
+          std::ostringstream note;
+          note << "partial output published with the checkpoint at t = " << t << " s; the run went on";
+          out.publish_partial(note.str(), step, t, d.wall_seconds);
+          io::write_checkpoint_file(ckpt.file, d);
+          ckpt_clock.taken(t, wall_now());
+          ++sum.checkpoints;
+        }
         if (opt.progress && clock::now() - last_report > std::chrono::duration<double>(opt.progress_interval_s)) {
           report(false);
           last_report = clock::now();
@@ -256,6 +293,7 @@ class CaseRunner {
     } catch (const StateError& e) {
       outcome = "failed";
       message = e.what();
+      if (e.t_good() < t) --step;  // caught after the step (before output): its start is kept
       t = e.t_good();
       if (t != t_snap_last) {  // the last good state, unless it is already the last snapshot
         append_snapshot(snaps, t, step);
@@ -263,22 +301,30 @@ class CaseRunner {
       }
     }
     const double wall = std::chrono::duration<double>(clock::now() - t0).count();
-    out.close_as(outcome, message, step, t, wall);
+    out.close_as(outcome, message, step, t, wall_before + wall);
+    if (stop_checkpoint) {  // after the output is in place (sim/checkpoint.hpp, "Order")
+      io::write_checkpoint_file(ckpt.file, *stop_checkpoint);
+      sum.checkpoint_file = ckpt.file;
+      ++sum.checkpoints;
+    }
     report(true);
     sum.outcome = outcome;
     sum.message = message;
     sum.steps = step;
     sum.t = t;
     sum.wall_seconds = wall;
-    sum.cell_updates_per_second = wall > 0 ? g.n_cells * static_cast<double>(step) / wall : 0;
+    sum.cell_updates_per_second = wall > 0 ? g.n_cells * static_cast<double>(step - step0) / wall : 0;
     return sum;
   }
 
  private:
+  /// The model as checkpoints name it: "mhd (nonlinear)".
+  [[nodiscard]] std::string model_label() const { return std::string(M::name()) + " (" + c_.form + ")"; }
+
   void write_header(io::OutputFile& out) {
     io::Provenance p;
     p.title = c_.title;
-    p.model = std::string(M::name()) + " (" + c_.form + ")";
+    p.model = model_label();
     p.run_file_name = rf_.source_name();
     p.run_file_text = rf_.source_text();
     for (const auto& o : rf_.overrides()) p.overrides += o + "\n";

@@ -151,6 +151,7 @@ class Stepper {
   }
 
   [[nodiscard]] FvOperator<M>& op() { return op_; }
+  [[nodiscard]] const FvOperator<M>& op() const { return op_; }
   [[nodiscard]] const TimeControl& time_control() const { return tc_; }
 
  private:
