@@ -7,6 +7,7 @@
 #include <filesystem>
 #include <fstream>
 #include <functional>
+#include <map>
 #include <sstream>
 #include <string>
 #include <vector>
@@ -259,7 +260,11 @@ TEST_CASE("output: the final file appears only after close_as", "[unit]") {
   OutputFile out(final_path.string());
   const fs::path temp = out.temporary_path();
   CHECK(out.final_path() == final_path.string());
-  CHECK(temp.string() == final_path.string() + ".tmp." + std::to_string(::getpid()));
+  // "<final>.tmp.<pid>.<6 random hex digits>": the random part keeps a new writer clear of a
+  // file left by a killed run that had the same PID (common for runs in containers).
+  const std::string prefix = final_path.string() + ".tmp." + std::to_string(::getpid()) + ".";
+  CHECK_THAT(temp.string(), Catch::Matchers::StartsWith(prefix));
+  CHECK(temp.string().size() == prefix.size() + 6);
   CHECK(fs::exists(temp));
   CHECK_FALSE(fs::exists(final_path));
   Series s = out.create_series("history", {{"mass", "kg m^-2", "mass per area"}}, 1, 8, false);
@@ -322,7 +327,9 @@ TEST_CASE("output: a failed or interrupted run is marked incomplete", "[unit]") 
   CHECK(r.read_real("/history/mass") == std::vector<double>{0.0, 2.0, 4.0});
   CHECK_THROWS_AS(H5Reader::open_complete_or_throw(path), tw::InputError);
   CHECK_THROWS_WITH(H5Reader::open_complete_or_throw(path),
-                    path + " is incomplete (the run did not finish or is still running)");
+                    Catch::Matchers::StartsWith(path + " is incomplete (the run did not finish or is still running)") &&
+                        Catch::Matchers::Contains("outcome '" + outcome + "' at t = ") &&
+                        Catch::Matchers::Contains("non-finite density in cell 17"));
 }
 
 TEST_CASE("output: every numeric dataset carries units", "[unit]") {
@@ -363,15 +370,22 @@ TEST_CASE("output: errors name the path and the problem", "[unit]") {
                                             Catch::Matchers::Contains("does not exist"));
     CHECK(directory_entries(dir.path()).empty());
   }
-  SECTION("an unwritable location reports the HDF5 cause") {
-    // A temporary name that already exists (as a directory) cannot be created exclusively.
-    const fs::path final_path = dir / "run.h5";
-    fs::create_directory(final_path.string() + ".tmp." + std::to_string(::getpid()));
+  SECTION("an uncreatable file reports the HDF5 cause") {
+    // A final name of 250 characters is allowed, its temporary name (20 more) is not.
+    const fs::path final_path = dir / (std::string(247, 'r') + ".h5");
     CHECK_THROWS_WITH(OutputFile(final_path.string()),
                       Catch::Matchers::Contains("cannot create file") &&
                           Catch::Matchers::Contains(final_path.string() + ".tmp."));
-    // The directory that blocked us is not ours to delete.
-    CHECK(fs::is_directory(final_path.string() + ".tmp." + std::to_string(::getpid())));
+    CHECK(directory_entries(dir.path()).empty());
+  }
+  SECTION("a stale temporary file of a killed run with the same PID does not block a new run") {
+    const fs::path final_path = dir / "run.h5";
+    const std::string stale = final_path.string() + ".tmp." + std::to_string(::getpid());
+    tw::test::write_text(stale, "left by a killed run\n");
+    OutputFile out(final_path.string());
+    out.close_as("completed", "", 0, 0.0, 0.0);
+    CHECK(H5Reader(final_path.string()).is_complete());
+    CHECK(read_file(stale) == "left by a killed run\n");  // not ours to delete
   }
   SECTION("misuse is an internal error") {
     OutputFile out((dir / "run.h5").string());
@@ -410,4 +424,152 @@ TEST_CASE("h5read: clear errors for missing files and objects", "[unit]") {
   CHECK_THROWS_WITH(r.attr_string("/grid/x", "colour"),
                     Catch::Matchers::Contains("attribute 'colour'"));
   CHECK_THROWS_WITH(r.read_real("/grid"), Catch::Matchers::Contains("is not a dataset"));
+}
+
+// --- Append mode and partial publishing (continuing a run from a checkpoint) ---------------
+
+namespace {
+
+/// A file as a run leaves it when stopped: history (10 rows, chunks of 4) and snapshots (5
+/// rows of width 3), a grid, closed as interrupted. Returns its run_id.
+std::string interrupted_run(const std::string& path) {
+  OutputFile out(path);
+  out.write_grid(std::vector<double>{0.5, 1.5, 2.5}, std::vector<double>{0.0, 1.0, 2.0, 3.0});
+  Series h = out.create_series("history", {{"mass", "kg m^-2", "mass per area"}}, 1, 4, false);
+  Series s = out.create_series("snapshots", two_columns, 3, 1, true);
+  for (int r = 0; r < 10; ++r) h.append(0.1 * r, r, std::vector<double>{cell_value(r, 0, 0)});
+  for (int r = 0; r < 5; ++r) s.append(0.2 * r, 2 * r, row_values(r, 2, 3));
+  out.close_as("interrupted", "stopped on request", 9, 0.9, 1.0);
+  return out.run_id();
+}
+
+}  // namespace
+
+TEST_CASE("output: append mode continues each series from the resume point", "[unit]") {
+  tw::test::ScratchDir dir("output-append");
+  const std::string path = (dir / "run.h5").string();
+  const std::string id = interrupted_run(path);
+  CHECK(id.size() == 32);
+  CHECK(H5Reader(path).attr_string("/", "run_id") == id);
+  const std::string before = read_file(path);
+  {
+    OutputFile out(path, tw::io::ResumePoint{id, {{"history", 6}, {"snapshots", 3}}, 1});
+    CHECK(out.appending());
+    CHECK(out.run_id() == id);
+    // The file at the final path is untouched while the continued run writes its copy.
+    CHECK(fs::exists(out.temporary_path()));
+    CHECK(read_file(path) == before);
+    CHECK_THROWS_AS(out.write_grid(std::vector<double>{0.5}, std::vector<double>{0.0, 1.0}),
+                    tw::InternalError);
+    Series h = out.create_series("history", {{"mass", "kg m^-2", "mass per area"}}, 1, 4, false);
+    Series s = out.create_series("snapshots", two_columns, 3, 1, true);
+    CHECK(h.rows() == 6);
+    CHECK(s.rows() == 3);
+    for (int r = 6; r < 12; ++r) h.append(0.1 * r, r, std::vector<double>{-cell_value(r, 0, 0)});
+    s.append(0.6, 6, row_values(9, 2, 3));
+    CHECK(out.series_rows() == std::map<std::string, std::size_t>{{"history", 12}, {"snapshots", 4}});
+    out.close_as("completed", "", 11, 1.1, 2.0);
+  }
+  CHECK(directory_entries(dir.path()) == std::vector<std::string>{"run.h5"});
+  const H5Reader r(path);
+  CHECK(r.is_complete());
+  CHECK(r.attr_string("/", "run_id") == id);
+  CHECK(r.attr_int("/status", "restarts") == 1);
+  CHECK(r.read_real("/grid/x") == std::vector<double>{0.5, 1.5, 2.5});
+  // Rows before the resume point are the old ones, later rows the new ones.
+  const auto mass = r.read_real("/history/mass");
+  REQUIRE(mass.size() == 12);
+  for (int k = 0; k < 12; ++k) CHECK(mass[static_cast<std::size_t>(k)] == (k < 6 ? 1 : -1) * cell_value(k, 0, 0));
+  CHECK(r.read_real("/history/step") == std::vector<double>{0, 1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11});
+  std::vector<hsize_t> dims;
+  const auto rho = r.read_real("/snapshots/density", &dims);
+  CHECK(dims == std::vector<hsize_t>{4, 3});
+  CHECK(rho[9] == cell_value(9, 0, 0));  // row 3 is the new one
+  CHECK(rho[8] == cell_value(2, 0, 2));  // row 2 the old one
+  CHECK(r.read_real("/snapshots/time") == std::vector<double>{0.0, 0.2, 0.4, 0.6});
+}
+
+TEST_CASE("output: append mode refuses an output that does not fit the resume point", "[unit]") {
+  tw::test::ScratchDir dir("output-append-refused");
+  const std::string path = (dir / "run.h5").string();
+  const std::string id = interrupted_run(path);
+  const std::string before = read_file(path);
+  const std::map<std::string, std::size_t> rows{{"history", 6}, {"snapshots", 3}};
+  using Catch::Matchers::Contains;
+
+  SECTION("another run") {
+    CHECK_THROWS_WITH(OutputFile(path, tw::io::ResumePoint{std::string(32, '0'), rows, 1}),
+                      Contains("belongs to another run"));
+  }
+  SECTION("fewer rows than the resume point") {
+    CHECK_THROWS_WITH(OutputFile(path, tw::io::ResumePoint{id, {{"history", 11}}, 1}),
+                      Contains("series 'history' has 10 rows, the checkpoint needs 11"));
+  }
+  SECTION("a series the resume point does not know") {
+    OutputFile out(path, tw::io::ResumePoint{id, {{"history", 6}}, 1});
+    CHECK_THROWS_AS(out.create_series("snapshots", two_columns, 3, 1, true), tw::InputError);
+  }
+  SECTION("other columns or width") {
+    OutputFile out(path, tw::io::ResumePoint{id, rows, 1});
+    CHECK_THROWS_WITH(out.create_series("snapshots", two_columns, 4, 1, true), Contains("has width 3"));
+    CHECK_THROWS_WITH(out.create_series("history", {{"energy", "J m^-2", "energy"}}, 1, 4, false),
+                      Contains("has no column 'energy'"));
+  }
+  SECTION("not a run output") {
+    const std::string other = (dir / "other.h5").string();
+    tw::test::write_text(other, "text\n");
+    CHECK_THROWS_AS(OutputFile(other, tw::io::ResumePoint{id, rows, 1}), tw::InputError);
+    fs::remove(other);
+  }
+  SECTION("a missing output") {
+    CHECK_THROWS_WITH(OutputFile((dir / "none.h5").string(), tw::io::ResumePoint{id, rows, 1}),
+                      Contains("no such file"));
+  }
+  // Nothing changed and nothing was left behind.
+  CHECK(read_file(path) == before);
+  CHECK(directory_entries(dir.path()) == std::vector<std::string>{"run.h5"});
+}
+
+TEST_CASE("output: publish_partial places an incomplete copy while the run goes on", "[unit]") {
+  tw::test::ScratchDir dir("output-publish");
+  const std::string path = (dir / "run.h5").string();
+  OutputFile out(path);
+  Series h = out.create_series("history", {{"mass", "kg m^-2", "mass per area"}}, 1, 256, false);
+  for (int r = 0; r < 3; ++r) h.append(r, r, std::vector<double>{1.0 * r});
+  out.publish_partial("checkpoint at t = 2 s", 2, 2.0, 0.5);
+  {
+    const H5Reader r(path);
+    CHECK(r.attr_int("/", "complete") == 0);
+    CHECK(r.attr_string("/status", "outcome") == "running");
+    CHECK(r.attr_string("/status", "message") == "checkpoint at t = 2 s");
+    CHECK(r.read_real("/history/mass") == std::vector<double>{0.0, 1.0, 2.0});  // buffered rows too
+    CHECK_THROWS_WITH(H5Reader::open_complete_or_throw(path),
+                      Catch::Matchers::Contains("outcome 'running'") && Catch::Matchers::Contains("--restart"));
+  }
+  for (int r = 3; r < 5; ++r) h.append(r, r, std::vector<double>{1.0 * r});
+  out.publish_partial("later", 4, 4.0, 1.0);
+  CHECK(H5Reader(path).read_real("/history/mass").size() == 5);
+  CHECK(directory_entries(dir.path()).size() == 2);  // the published copy and the open file
+  out.close_as("completed", "", 4, 4.0, 1.0);
+  const H5Reader r(path);
+  CHECK(r.is_complete());
+  CHECK(r.read_real("/history/mass") == std::vector<double>{0.0, 1.0, 2.0, 3.0, 4.0});
+  CHECK(directory_entries(dir.path()) == std::vector<std::string>{"run.h5"});
+}
+
+TEST_CASE("h5read: only a complete run output passes the check readers use", "[unit]") {
+  tw::test::ScratchDir dir("h5read-complete");
+  const std::string path = (dir / "other.h5").string();
+  // A file of another kind with complete = 1 (a checkpoint looks like this) is not a run.
+  const hid_t f = H5Fcreate(path.c_str(), H5F_ACC_EXCL, H5P_DEFAULT, H5P_DEFAULT);
+  REQUIRE(f >= 0);
+  const hid_t space = H5Screate(H5S_SCALAR);
+  const hid_t a = H5Acreate2(f, "complete", H5T_STD_I32LE, space, H5P_DEFAULT, H5P_DEFAULT);
+  const int one = 1;
+  H5Awrite(a, H5T_NATIVE_INT, &one);
+  H5Aclose(a);
+  H5Sclose(space);
+  H5Fclose(f);
+  CHECK(H5Reader(path).is_complete());
+  CHECK_THROWS_WITH(H5Reader::open_complete_or_throw(path), Catch::Matchers::Contains("is not a tubewave run output"));
 }

@@ -1,9 +1,11 @@
 #include "support/test_support.hpp"
 
+#include <fcntl.h>
 #include <sys/wait.h>
 #include <unistd.h>
 
 #include <array>
+#include <cerrno>
 #include <atomic>
 #include <cstdio>
 #include <fstream>
@@ -29,9 +31,11 @@ ScratchDir::~ScratchDir() {
   std::filesystem::remove_all(path_, ec);
 }
 
-CommandResult run_tubewave(const std::string& args, const std::filesystem::path& workdir) {
+CommandResult run_tubewave(const std::string& args, const std::filesystem::path& workdir,
+                           const std::string& environment) {
   std::string cmd;
   if (!workdir.empty()) cmd = "cd '" + workdir.string() + "' && ";
+  if (!environment.empty()) cmd += "env " + environment + " ";
   cmd += std::string("'") + TUBEWAVE_EXE + "' " + args + " 2>&1";
   CommandResult r;
   FILE* pipe = ::popen(cmd.c_str(), "r");
@@ -42,6 +46,37 @@ CommandResult run_tubewave(const std::string& args, const std::filesystem::path&
   const int status = ::pclose(pipe);
   r.exit_code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
   return r;
+}
+
+int start_tubewave(const std::vector<std::string>& args, const std::filesystem::path& workdir,
+                   const std::filesystem::path& log) {
+  std::vector<std::string> argv_s{TUBEWAVE_EXE};
+  argv_s.insert(argv_s.end(), args.begin(), args.end());
+  std::vector<char*> argv;
+  for (auto& a : argv_s) argv.push_back(a.data());
+  argv.push_back(nullptr);
+  const pid_t pid = ::fork();
+  if (pid < 0) throw std::runtime_error("fork failed");
+  if (pid == 0) {  // the child: only async-signal-safe calls until exec
+    if (::chdir(workdir.c_str()) != 0) ::_exit(126);
+    const int fd = ::open(log.c_str(), O_WRONLY | O_CREAT | O_TRUNC, 0644);
+    if (fd < 0) ::_exit(126);
+    ::dup2(fd, STDOUT_FILENO);
+    ::dup2(fd, STDERR_FILENO);
+    ::execv(argv[0], argv.data());
+    ::_exit(127);
+  }
+  return pid;
+}
+
+int wait_tubewave(int pid) {
+  int status = 0;
+  while (::waitpid(pid, &status, 0) < 0) {
+    if (errno != EINTR) throw std::runtime_error("waitpid failed");
+  }
+  if (WIFEXITED(status)) return WEXITSTATUS(status);
+  if (WIFSIGNALED(status)) return 128 + WTERMSIG(status);
+  return -1;
 }
 
 void write_text(const std::filesystem::path& path, const std::string& text) {

@@ -3,6 +3,7 @@
 /// running the `tubewave` executable.
 #include <filesystem>
 #include <string>
+#include <vector>
 
 namespace tw::test {
 
@@ -30,8 +31,19 @@ struct CommandResult {
 };
 
 /// Run `tubewave ARGS` (ARGS is appended after the executable path, shell-quoted by the
-/// caller where needed) in `workdir`, capturing output.
-CommandResult run_tubewave(const std::string& args, const std::filesystem::path& workdir = {});
+/// caller where needed) in `workdir`, capturing output. `environment` ("NAME=value ...") is
+/// set for the command only.
+CommandResult run_tubewave(const std::string& args, const std::filesystem::path& workdir = {},
+                           const std::string& environment = {});
+
+/// Start `tubewave ARGS...` in the background in `workdir` (stdout and stderr to `log`) and
+/// return its process id, for tests that signal or kill a running process.
+int start_tubewave(const std::vector<std::string>& args, const std::filesystem::path& workdir,
+                   const std::filesystem::path& log);
+
+/// Wait for a process started by start_tubewave: its exit code, or 128 + the signal that
+/// ended it (the shell's convention: 137 for SIGKILL).
+int wait_tubewave(int pid);
 
 /// Write `text` to `path` (helper for inline run files).
 void write_text(const std::filesystem::path& path, const std::string& text);
