@@ -363,3 +363,19 @@ TEST_CASE("restart: kill -9 at any moment leaves no complete-looking output and 
   }
   CHECK(continued >= 3);
 }
+
+TEST_CASE("restart: the checkpoint cannot be the output file", "[unit][restart]") {
+  const ScratchDir dir("restart-same-file");
+  const fs::path out = dir / "run.h5";
+  std::vector<std::string> o = demo_short;
+  o.push_back("checkpoint.file=" + out.string());
+  try {
+    (void)run_to("configs/demo_column.yaml", o, out);
+    FAIL("the run started");
+  } catch (const tw::io::ConfigError& e) {
+    CHECK(e.exit_code() == 2);
+    CHECK_THAT(std::string(e.what()), Contains("(--set checkpoint.file=") && Contains("key 'checkpoint.file'") &&
+                                          Contains("cannot be the output file"));
+  }
+  CHECK(entries(dir.path()).empty());
+}
