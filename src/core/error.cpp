@@ -2,7 +2,7 @@
 
 namespace tw {
 
-void fail_internal(const std::string& what, std::source_location where) {
+void fail_internal(const std::string& what, SourceLocation where) {
   throw InternalError("internal error in " + std::string(where.function_name()) + " (" +
                       where.file_name() + ":" + std::to_string(where.line()) + "): " + what);
 }

@@ -13,6 +13,35 @@
 
 namespace tw {
 
+#if defined(__cpp_lib_source_location)
+/// Where a check failed (function, file, line).
+using SourceLocation = std::source_location;
+#else
+/// Where a check failed. Stand-in for std::source_location where the standard library does
+/// not offer it to this compiler (libstdc++ 12 with clang 14, used by the fuzz build): the
+/// same builtins, the same member names.
+class SourceLocation {
+ public:
+  static constexpr SourceLocation current(const char* file = __builtin_FILE(),
+                                          const char* function = __builtin_FUNCTION(),
+                                          unsigned line = __builtin_LINE()) noexcept {
+    SourceLocation s;
+    s.file_ = file;
+    s.function_ = function;
+    s.line_ = line;
+    return s;
+  }
+  [[nodiscard]] constexpr const char* file_name() const noexcept { return file_; }
+  [[nodiscard]] constexpr const char* function_name() const noexcept { return function_; }
+  [[nodiscard]] constexpr unsigned line() const noexcept { return line_; }
+
+ private:
+  const char* file_ = "";
+  const char* function_ = "";
+  unsigned line_ = 0;
+};
+#endif
+
 /// Base of every tubewave error; `what()` is the complete message for the user.
 class Error : public std::runtime_error {
  public:
@@ -50,7 +79,7 @@ inline constexpr int interrupted = 3;
 }  // namespace exit_code
 
 [[noreturn]] void fail_internal(const std::string& what,
-                                std::source_location where = std::source_location::current());
+                                SourceLocation where = SourceLocation::current());
 
 }  // namespace tw
 

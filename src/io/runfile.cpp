@@ -1,5 +1,6 @@
 #include "io/runfile.hpp"
 
+#include <yaml-cpp/eventhandler.h>
 #include <yaml-cpp/yaml.h>
 
 #include <cerrno>
@@ -323,8 +324,54 @@ SourcePos mark_pos(const std::string& file, const YAML::Mark& m) {
   return SourcePos{file, m.line + 1, m.column + 1, ""};
 }
 
+/// Records where each document starts; nothing else.
+class DocumentStarts final : public YAML::EventHandler {
+ public:
+  void OnDocumentStart(const YAML::Mark& mark) override { start = mark; }
+  void OnDocumentEnd() override {}
+  void OnNull(const YAML::Mark&, YAML::anchor_t) override {}
+  void OnAlias(const YAML::Mark&, YAML::anchor_t) override {}
+  void OnScalar(const YAML::Mark&, const std::string&, YAML::anchor_t, const std::string&) override {}
+  void OnSequenceStart(const YAML::Mark&, const std::string&, YAML::anchor_t, YAML::EmitterStyle::value) override {}
+  void OnSequenceEnd() override {}
+  void OnMapStart(const YAML::Mark&, const std::string&, YAML::anchor_t, YAML::EmitterStyle::value) override {}
+  void OnMapEnd() override {}
+  YAML::Mark start = YAML::Mark::null_mark();
+};
+
+/// Text of the syntax error yaml-cpp cannot report (below).
+constexpr const char* stray_separator =
+    "unexpected ',' (a separator belongs inside a list [...] or a map {...})";
+
+/// yaml-cpp 0.7 never returns from Load/LoadAll on a document whose root starts with ','
+/// (a flow-collection separator outside [ ] or { }; the text "," is enough): the parser
+/// produces an empty document without consuming the token, again and again, allocating as
+/// it goes. Found by fuzzing the run-file loader (tests/fuzz). Walk the documents with the
+/// event parser first; a document that does not advance is thrown as the syntax error it
+/// is (YAML::ParserException at its position). Other errors are left to the loader, which
+/// reports them as before.
+void reject_stuck_documents(const std::string& text) {
+  std::istringstream in(text);
+  YAML::Parser parser(in);
+  DocumentStarts h;
+  std::optional<int> last_pos;
+  bool stuck = false;
+  try {
+    for (int docs = 0; docs < 10000 && !stuck && parser.HandleNextDocument(h); ++docs) {
+      stuck = last_pos && *last_pos == h.start.pos;
+      last_pos = h.start.pos;
+    }
+  } catch (const YAML::Exception&) {
+    return;  // reported by the loader with the same position
+  }
+  if (stuck) throw YAML::ParserException(h.start, stray_separator);
+}
+
 /// Parse one YAML value written on the command line or as a declared default.
-YAML::Node load_value(const std::string& text) { return YAML::Load(text); }
+YAML::Node load_value(const std::string& text) {
+  reject_stuck_documents(text);
+  return YAML::Load(text);
+}
 
 // ---------------------------------------------------------------------------------------
 // Validated values
@@ -819,6 +866,7 @@ RunFile RunFile::parse(const std::string& text, const std::string& source_name,
 
   std::vector<YAML::Node> docs;
   try {
+    reject_stuck_documents(text);
     docs = YAML::LoadAll(text);
   } catch (const YAML::Exception& e) {
     SourcePos p = mark_pos(source_name, e.mark);

@@ -32,11 +32,26 @@ ModeSet primitive_modes(int n, const std::function<void(const real*, real*)>& fl
       dU(i, j) = (up[I] - um[I]) / (2 * h);
     }
   }
-  const Eigen::MatrixXd A = dU.partialPivLu().solve(dF);
-  Eigen::EigenSolver<Eigen::MatrixXd> es(A);
-  TW_CHECK(es.info() == Eigen::Success, "eigen-decomposition failed");
-  const auto ev = es.eigenvalues();
-  const auto vecs = es.eigenvectors();
+  // Decompose a dimensionless similar matrix: B = S^-1 A S / a with S = diag(scale) and a its
+  // largest entry, so that every entry is O(1). The raw A mixes units (densities of 1e-27
+  // kg/m^3 next to speeds of 1e8 m/s in SI) and Eigen's QR iteration can fail to converge on
+  // it (found by fuzzing the run-file loader). Eigenvalues of A are a times those of B, its
+  // eigenvectors S times B's.
+  Eigen::MatrixXd B = dU.partialPivLu().solve(dF);
+  for (int i = 0; i < n; ++i)
+    for (int j = 0; j < n; ++j)
+      B(i, j) *= scale[static_cast<std::size_t>(j)] / scale[static_cast<std::size_t>(i)];
+  real a = B.cwiseAbs().maxCoeff();
+  const char* why = "; the background's scales are too far apart for double precision (a "
+                    "plasma beta near 1e-20, say, loses the pressure to round-off in the total energy)";
+  if (!std::isfinite(a)) throw EigenModeError(std::string("the characteristic matrix is not finite") + why);
+  if (a == 0) a = 1;
+  B /= a;
+  Eigen::EigenSolver<Eigen::MatrixXd> es(B);
+  if (es.info() != Eigen::Success) throw EigenModeError(std::string("the eigen-decomposition did not converge") + why);
+  const Eigen::VectorXcd ev = es.eigenvalues() * a;
+  Eigen::MatrixXcd vecs = es.eigenvectors();
+  for (int i = 0; i < n; ++i) vecs.row(i) *= scale[static_cast<std::size_t>(i)];
   std::vector<int> order(static_cast<std::size_t>(n));
   std::iota(order.begin(), order.end(), 0);
   std::sort(order.begin(), order.end(), [&](int a, int b) { return ev(a).real() < ev(b).real(); });

@@ -11,6 +11,7 @@
 #include <functional>
 #include <vector>
 
+#include "core/error.hpp"
 #include "core/types.hpp"
 
 namespace tw {
@@ -19,6 +20,13 @@ struct ModeSet {
   std::vector<real> speeds;                ///< eigenvalues, ascending [m/s]
   std::vector<std::vector<real>> vectors;  ///< right eigenvectors (primitive), same order
   real max_imag = 0;                       ///< largest |imaginary part| seen (0 if hyperbolic)
+};
+
+/// The modes cannot be computed at this state (scales beyond double precision): bad input,
+/// which the caller turns into an error at the run-file key that chose the state.
+class EigenModeError : public InputError {
+ public:
+  using InputError::InputError;
 };
 
 /// `flux(W, F)` and `cons(W, U)` act on the n active primitive variables (a model with a

@@ -213,7 +213,11 @@ class FvOperator {
       const FluxT solver{};
       const int n = grid_.n_cells;
       const bool grad = gradient_active(m);
-#pragma omp for schedule(static) reduction(max : smax)
+      // Each thread's largest speed, merged below. (A reduction clause on the reference
+      // `smax` in this orphaned loop is accepted by GCC but not by clang; max is exact, so
+      // the merge order does not matter.)
+      real mine = 0;
+#pragma omp for schedule(static)
       for (int f = 0; f <= n; ++f) {
         auto ff = solver(m, Wp_[f - 1], Wm_[f]);
         if constexpr (HasGradientFlux<M>) {
@@ -223,8 +227,10 @@ class FvOperator {
           }
         }
         F_[static_cast<std::size_t>(f)] = ff.flux;
-        smax = std::max(smax, ff.speed);
+        mine = std::max(mine, ff.speed);
       }
+#pragma omp critical(tubewave_face_speed)
+      smax = std::max(smax, mine);
     } else {
       (void)m;
       (void)dx;

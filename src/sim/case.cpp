@@ -216,6 +216,17 @@ CaseSetup read_case(const io::RunFile& rf, const std::string& output_override) {
   o.snapshot_interval = rf.has("output.snapshot_interval") ? rf.get_real("output.snapshot_interval") : c.t_end / 50;
   o.probe_interval = rf.has("output.probe_interval") ? rf.get_real("output.probe_interval") : c.t_end / 500;
   o.history_interval = rf.has("output.history_interval") ? rf.get_real("output.history_interval") : c.t_end / 1000;
+  // An interval so short that the rows could not be counted is a typo (found by fuzzing:
+  // the row counts overflowed); a billion rows of anything is far beyond a useful file.
+  for (const char* k : {"snapshot_interval", "probe_interval", "history_interval"}) {
+    const std::string key = std::string("output.") + k;
+    if (rf.has(key) && c.t_end / rf.get_real(key) > max_output_rows) {
+      std::ostringstream msg;
+      msg << "gives " << c.t_end / rf.get_real(key) << " rows before time.end = " << c.t_end
+          << " s; at most " << max_output_rows << " (is the unit right?)";
+      rf.fail(key, msg.str());
+    }
+  }
   o.probes = rf.get_reals("output.probes");
   for (std::size_t k = 0; k < o.probes.size(); ++k) {
     if (o.probes[k] < c.grid.x_min || o.probes[k] > c.grid.x_max()) {

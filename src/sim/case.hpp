@@ -50,6 +50,9 @@ struct CaseSetup {
   OutputSpec output;
 };
 
+/// Most rows an output interval may give over a run (read_case rejects shorter intervals).
+inline constexpr double max_output_rows = 1e9;
+
 /// Declare the keys of every model-independent section.
 void declare_case_keys(io::Schema& schema);
 

@@ -34,7 +34,11 @@ CheckpointSpec read_checkpoint_spec(const io::RunFile& rf, const std::string& ou
   if (s.file.empty()) s.file = default_checkpoint_path(output_file);
   if (fs::absolute(s.file).lexically_normal() == fs::absolute(output_file).lexically_normal())
     rf.fail("checkpoint.file", "the checkpoint cannot be the output file '" + output_file + "'");
-  if (rf.has("checkpoint.interval")) s.interval = rf.get_real("checkpoint.interval");
+  if (rf.has("checkpoint.interval")) {
+    s.interval = rf.get_real("checkpoint.interval");
+    if (rf.get_real("time.end") / s.interval > 1e9)
+      rf.fail("checkpoint.interval", "gives more than 1e9 checkpoints before time.end (is the unit right?)");
+  }
   if (rf.has("checkpoint.wall_interval")) s.wall_interval = rf.get_real("checkpoint.wall_interval");
   return s;
 }

@@ -175,7 +175,12 @@ bool ModelSetup<Mhd>::perturb(const Mhd& m, const io::RunFile& rf, const CaseSet
     big = std::max(big, std::max(std::abs(r[Mhd::VY]), std::abs(r[Mhd::VZ])) / cf);
     for (auto& q : r) q /= big;
   } else {
-    const ModeSet ms = primitive_modes_mhd(m, W0);
+    ModeSet ms;
+    try {
+      ms = primitive_modes_mhd(m, W0);
+    } catch (const EigenModeError& e) {  // found by fuzzing: an SI plasma of 1 particle per m^3
+      rf.fail("initial.mode", std::string("the ") + mode + " wave cannot be computed at this background: " + e.what());
+    }
     const int idx = mhd_mode_index(mode, forward);
     const real s = ms.speeds[static_cast<std::size_t>(idx)];
     const real gap_tol = 1e-6 * cf;

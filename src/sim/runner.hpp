@@ -113,7 +113,9 @@ class CaseRunner {
     for (const auto& l : stepper_->all_limits(model_, U_, 0)) r.limits.emplace_back(l.name, l.dt);
     if (c_.time.dt_max < std::numeric_limits<real>::infinity()) r.limits.emplace_back("max_dt", c_.time.dt_max);
     r.t_end = c_.t_end;
-    r.estimated_steps = static_cast<long>(std::ceil(c_.t_end / r.dt));
+    // As a double first: t_end / dt can exceed the range of long (found by fuzzing).
+    const double steps = std::ceil(c_.t_end / r.dt);
+    r.estimated_steps = steps < 9e18 ? static_cast<long>(steps) : std::numeric_limits<long>::max();
     r.memory_bytes = 7.0 * g.n_total() * sizeof(State);
     const auto outs = M::output_info();
     r.snapshots = Cadence(c_.output.snapshot_interval).count(c_.t_end) + 1;
