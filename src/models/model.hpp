@@ -34,6 +34,11 @@
 ///        extra time-step limits of one cell (diffusion, whistler, ...)
 ///   EnergyParts energy_density(const State& W) const;
 ///        kinetic, thermal, magnetic and electric energy densities (energy budgets)
+///   static std::vector<VariableInfo> diagnostic_info();
+///   void diagnostics(const Grid& grid, const Field<State>& U, real* out) const;
+///        whole-tube numbers the runner writes to /history with every record, one column
+///        per diagnostic_info() entry (e.g. a constraint residual such as Gauss's law);
+///        reads the interior cells of the conservative state only, reduces in a fixed order
 #include <algorithm>
 #include <concepts>
 #include <limits>
@@ -41,6 +46,7 @@
 #include <vector>
 
 #include "core/types.hpp"
+#include "grid/grid.hpp"
 
 namespace tw {
 
@@ -134,6 +140,12 @@ concept HasSource = requires(const M m, const typename M::State& s, real x, real
 template <class M>
 concept HasEnergyDensity = requires(const M m, const typename M::State& s) {
   { m.energy_density(s) } -> std::same_as<EnergyParts>;
+};
+
+template <class M>
+concept HasDiagnostics = requires(const M m, const Grid& g, const Field<typename M::State>& U, real* out) {
+  { M::diagnostic_info() } -> std::same_as<std::vector<VariableInfo>>;
+  { m.diagnostics(g, U, out) };
 };
 
 template <class M>

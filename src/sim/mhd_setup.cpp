@@ -5,6 +5,7 @@
 
 #include "core/constants.hpp"
 #include "models/eigen_modes.hpp"
+#include "sim/twofluid_setup.hpp"
 
 namespace tw {
 
@@ -19,12 +20,13 @@ void declare_mhd_keys(io::Schema& schema) {
 
   io::Section& init = schema.root().section("initial", "the state at t = 0");
   init.choice("mode", {"fast", "alfven", "slow", "entropy"}, "wave: which linear MHD wave").def("alfven");
-  init.choice("direction", {"forward", "backward"}, "wave: travelling toward +x (forward) or -x").def("forward");
-  init.real("amplitude", "", "wave: peak perturbation relative to the background scales "
-                             "(density rho0, velocities c_f, fields sqrt(mu0 rho0) c_f, pressure rho0 c_f^2)")
+  init.choice("direction", {"forward", "backward"}, "wave, parallel-wave: travelling toward +x (forward) or -x").def("forward");
+  init.real("amplitude", "", "wave kinds: peak perturbation relative to the background scales "
+                             "(wave: density rho0, velocities c_f, fields sqrt(mu0 rho0) c_f, pressure rho0 c_f^2; "
+                             "parallel-wave: |dB|/|B0|; langmuir: dn_e/n_e)")
       .positive()
       .def(1e-4);
-  init.real("wavelength", "m", "wave: wavelength (default: the tube length)").positive();
+  init.real("wavelength", "m", "wave kinds: wavelength (default: the tube length)").positive();
 }
 
 void read_mhd_fluid(const io::RunFile& rf, const CaseSetup& c, Mhd& m) {
@@ -52,6 +54,7 @@ void read_mhd_fluid(const io::RunFile& rf, const CaseSetup& c, Mhd& m) {
 
 Mhd ModelSetup<Mhd>::make(const io::RunFile& rf, const CaseSetup& c) {
   Mhd m;
+  reject_two_fluid_keys(rf, "mhd");
   read_mhd_fluid(rf, c, m);
   return m;
 }
@@ -135,6 +138,7 @@ void require_pressure(const io::RunFile& rf, const CaseSetup& c, const Field<Mhd
 
 bool ModelSetup<Mhd>::perturb(const Mhd& m, const io::RunFile& rf, const CaseSetup& c, Field<State>& W) {
   const std::string kind = rf.get_string("initial.kind");
+  if (kind != "wave" && kind != "uniform" && kind != "riemann") return false;  // another model's kind
   if (kind != "wave") {
     for (const char* k : {"mode", "direction", "amplitude", "wavelength"})
       if (rf.given(std::string("initial.") + k))

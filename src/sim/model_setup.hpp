@@ -14,6 +14,15 @@
 ///        resolved model parameters for the output file
 ///   static FluxKind flux(const io::RunFile&, const M&);
 ///        the numerical flux to use (resolving "auto", rejecting unavailable ones)
+///
+/// Optional (detected with HasSetupWarnings):
+///   static std::vector<std::string> warnings(const M&, const CaseSetup&, real dt);
+///        model-specific warnings `tubewave check` prints (reduced constants, unresolved
+///        time scales at the first time step dt)
+#include <concepts>
+#include <string>
+#include <vector>
+
 #include "grid/grid.hpp"
 #include "io/output.hpp"
 #include "io/runfile.hpp"
@@ -23,5 +32,10 @@ namespace tw {
 
 template <class M>
 struct ModelSetup;
+
+template <class M>
+concept HasSetupWarnings = requires(const M& m, const CaseSetup& c, real dt) {
+  { ModelSetup<M>::warnings(m, c, dt) } -> std::convertible_to<std::vector<std::string>>;
+};
 
 }  // namespace tw

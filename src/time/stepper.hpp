@@ -14,7 +14,10 @@
 /// - integrates the fluxes through both ends with the scheme's stage weights, so
 ///   totals + net boundary inflow is conserved to round-off;
 /// - models with a stiff local source (M::stiff_source_step) get it applied by Strang
-///   splitting: half a step before the stages and half after.
+///   splitting: half a step before the stages and half after. For them the step is chosen
+///   from a cheaper survey of U^n (the signal speeds of the cell states, not of
+///   reconstructed face states; FvOperator::survey), since the operator has to be
+///   evaluated again after the first half step.
 #include <cmath>
 #include <sstream>
 #include <string>
@@ -83,7 +86,9 @@ class Stepper {
     for (std::size_t s = 0; s < stages_.size(); ++s) {
       const RkStage st = stages_[s];
       const real ts = t + st.time * dt;
-      auto rep = op_.evaluate(m, ts, U, L_, s == 0);
+      // A model with a split stiff source is re-evaluated after its first half step, so
+      // the first pass only has to validate U^n and find the step (no fluxes).
+      auto rep = (HasStiffSource<M> && s == 0) ? op_.survey(m, ts, U, true) : op_.evaluate(m, ts, U, L_, s == 0);
       if (s == 0) {
         // The first evaluation validates U^n, the result of the previous step; only then
         // does it become the state to fall back to.
