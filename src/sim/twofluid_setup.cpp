@@ -328,8 +328,8 @@ std::vector<std::string> ModelSetup<TwoFluid>::warnings(const TwoFluid& m, const
   const real m_i = m.ion.particle_mass, m_e = m.electron.particle_mass;
   if (!c.units.normalized && m.c < constants::c)
     w.push_back("model.light_speed reduces the speed of light by a factor " + num(constants::c / m.c) + " to " +
-                num(m.c) + " m/s: the displacement current is larger, plasma frequencies and Debye "
-                "lengths grow by that factor, and only waves much slower than " + num(m.c) +
+                num(m.c) + " m/s: eps0 grows by its square, plasma frequencies fall and Debye lengths "
+                "grow by that factor (inertial lengths are unchanged), and only waves much slower than " + num(m.c) +
                 " m/s keep their physical speed (a shear wave runs at v_A/sqrt(1 + v_A^2/c^2))");
   if (!c.units.normalized && m_e != constants::m_e)
     w.push_back("model.mass_ratio = " + num(m_i / m_e) + " replaces the physical m_i/m_e = " +
