@@ -11,12 +11,32 @@
 #include "diagnostics/run_measure.hpp"
 #include "io/h5read.hpp"
 #include "io/runfile.hpp"
+#include "io/schema.hpp"
 #include "sim/run.hpp"
 #include "tubewave/version.hpp"
 
 namespace tw::cli {
 
 namespace {
+
+/// Whether this build's schema declares a dotted key (run files of other versions, and
+/// keys that only some builds have, are read with care).
+bool declared(const std::string& path) {
+  const io::Section* sec = &run_schema().root();
+  std::size_t pos = 0;
+  while (true) {
+    const std::size_t dot = path.find('.', pos);
+    const io::KeySpec* k = sec->find(path.substr(pos, dot == std::string::npos ? std::string::npos : dot - pos));
+    if (k == nullptr) return false;
+    if (dot == std::string::npos) return true;
+    if (!k->sub) return false;
+    sec = k->sub.get();
+    pos = dot + 1;
+  }
+}
+
+/// The value of a key when this build declares it and the run file has it.
+bool present(const io::RunFile& rf, const std::string& key) { return declared(key) && rf.has(key); }
 
 /// Probe positions, periodic ends and drive frequency from the run's resolved run file
 /// (read with this build's schema; a file from an incompatible version gives none).
@@ -29,15 +49,23 @@ diag::RunLayout read_layout(const io::H5Reader& h, std::vector<std::string>& not
   }
   try {
     const io::RunFile rf = io::RunFile::parse(h.read_string(where), h.file_name() + ":" + where, run_schema());
-    layout.probe_x = rf.get_reals("output.probes");
+    if (present(rf, "output.probes")) layout.probe_x = rf.get_reals("output.probes");
     layout.normalized = rf.get_string("units") == "normalized";
     const std::string left = rf.get_string("boundaries.left.kind");
     const std::string right = rf.get_string("boundaries.right.kind");
     layout.periodic = left == "periodic" && right == "periodic";
     for (const char* side : {"left", "right"}) {
       const std::string key = std::string("boundaries.") + side;
-      if (rf.get_string(key + ".kind") != "driven") continue;
+      if (rf.get_string(key + ".kind") != "driven" || !present(rf, key + ".frequency")) continue;
+      // Waveforms without one carrier frequency (sweeps, pulses) leave it to the spectrum.
+      const std::string waveform = present(rf, key + ".waveform") ? rf.get_string(key + ".waveform") : "continuous";
+      if (waveform != "continuous" && waveform != "tone-burst") {
+        notes.push_back("the " + std::string(side) + " end's drive (" + waveform +
+                        ") has no single frequency: the spectral peak is measured");
+        continue;
+      }
       const real f = rf.get_real(key + ".frequency");
+      if (!(f > 0)) continue;
       if (!layout.drive_frequency) {
         layout.drive_frequency = f;
       } else if (f != *layout.drive_frequency) {

@@ -78,10 +78,15 @@ void write_synthetic(const Synthetic& s, const fs::path& path) {
   for (int i = 0; i <= s.cells; ++i) xf.push_back(i * dx);
   for (int i = 0; i < s.cells; ++i) xc.push_back((i + 0.5) * dx);
   out.write_grid(xc, xf);
-  const std::vector<tw::io::ColumnInfo> cols =
-      s.complex_field ? std::vector<tw::io::ColumnInfo>{{"velocity_y_re", "m/s", "real part"},
-                                                        {"velocity_y_im", "m/s", "imaginary part"}}
-                      : std::vector<tw::io::ColumnInfo>{{"velocity_y", "m/s", "transverse velocity"}};
+  std::vector<tw::io::ColumnInfo> cols;
+  for (const char* name : s.complex_field ? std::vector<const char*>{"velocity_y_re", "velocity_y_im"}
+                                          : std::vector<const char*>{"velocity_y"}) {
+    tw::io::ColumnInfo c;
+    c.name = name;
+    c.units = "m/s";
+    c.description = "transverse velocity";
+    cols.push_back(c);
+  }
   auto row = [&](const std::vector<double>& xs, double t) {
     std::vector<double> re, im;
     for (double x : xs) {
