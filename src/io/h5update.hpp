@@ -13,6 +13,9 @@
 /// file, results included. The root attribute "complete" is copied unchanged: only
 /// complete files should be given here (the caller checks).
 ///
+/// Two updates of one file at the same time do not corrupt it, but the later rename wins
+/// (the earlier update is lost): run them one after the other.
+///
 /// Removing a group does not shrink an HDF5 file: repeating an update leaves the space of
 /// the old group unused inside the file (h5repack reclaims it). Results are small (a few
 /// MB at most), so this is accepted.
