@@ -221,7 +221,9 @@ TEST_CASE("cli: plasma rejects bad flags with exit code 2", "[unit][cli]") {
       {"plasma --n 1e19 --B 1 --ion H --bogus", "unknown option '--bogus'"},
       {"plasma --n 1e19 --B 1 --ion H --jsn", "unknown option '--jsn' (did you mean '--json'?)"},
       {"plasma --n 1e19 --B 1 --ion H --json=yes", "option --json takes no value"},
-      {"plasma --n 1e19 --B 1 --ion H extra", "unexpected argument 'extra'"},
+      {"plasma run.yaml extra", "unexpected argument 'extra'"},
+      {"plasma --n 1e19 --B 1 --ion H run.yaml", "give either a run file or the plasma flags, not both"},
+      {"plasma --n 1e19 --B 1 --ion H --at 3", "option --at needs a run file"},
   };
   for (const auto& c : cases) {
     INFO(c.args);

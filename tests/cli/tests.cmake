@@ -10,9 +10,8 @@ foreach(cfg ${TUBEWAVE_EXAMPLE_CONFIGS})
 endforeach()
 
 # The key reference in README.md (between <!-- keys:begin --> and <!-- keys:end -->) must
-# match `tubewave keys`: tests/cli/check_keys_reference.sh. Not registered yet: README.md
-# does not exist. Register it with
-#   add_test(NAME "readme: key reference is up to date"
-#            COMMAND ${CMAKE_CURRENT_LIST_DIR}/check_keys_reference.sh
-#                    $<TARGET_FILE:tubewave> ${PROJECT_SOURCE_DIR}/README.md)
-#   set_tests_properties("readme: key reference is up to date" PROPERTIES LABELS unit)
+# match `tubewave keys`: regenerate it after changing run-file keys.
+add_test(NAME "readme: key reference is up to date"
+         COMMAND ${CMAKE_CURRENT_LIST_DIR}/check_keys_reference.sh
+                 $<TARGET_FILE:tubewave> ${PROJECT_SOURCE_DIR}/README.md)
+set_tests_properties("readme: key reference is up to date" PROPERTIES LABELS unit)
