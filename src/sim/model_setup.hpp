@@ -15,10 +15,10 @@
 ///   static FluxKind flux(const io::RunFile&, const M&);
 ///        the numerical flux to use (resolving "auto", rejecting unavailable ones)
 ///
-/// Optional (detected with HasSetupWarnings):
-///   static std::vector<std::string> warnings(const M&, const CaseSetup&, real dt);
-///        model-specific warnings `tubewave check` prints (reduced constants, unresolved
-///        time scales at the first time step dt)
+/// Optional (detected with HasCheckWarnings):
+///   static std::vector<std::string> check_warnings(const M&, const CaseSetup&);
+///        sentences `tubewave check` prints as warnings (a reduced light speed, a stiff
+///        limit stepped past, an unresolved length, ...)
 #include <concepts>
 #include <string>
 #include <vector>
@@ -34,8 +34,8 @@ template <class M>
 struct ModelSetup;
 
 template <class M>
-concept HasSetupWarnings = requires(const M& m, const CaseSetup& c, real dt) {
-  { ModelSetup<M>::warnings(m, c, dt) } -> std::convertible_to<std::vector<std::string>>;
+concept HasCheckWarnings = requires(const M& m, const CaseSetup& c) {
+  { ModelSetup<M>::check_warnings(m, c) } -> std::same_as<std::vector<std::string>>;
 };
 
 }  // namespace tw

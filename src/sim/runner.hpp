@@ -151,8 +151,8 @@ class CaseRunner {
       r.warnings.push_back("weno5 is fifth order in space; ssp-rk3 keeps its time error comparable");
     if (scheme_.reconstruction == Reconstruction::plm && scheme_.limiter == Limiter::none)
       r.warnings.push_back("unlimited slopes oscillate at discontinuities; use them for smooth waves only");
-    if constexpr (HasSetupWarnings<M>)
-      for (auto& w : ModelSetup<M>::warnings(model_, c_, r.dt)) r.warnings.push_back(std::move(w));
+    if constexpr (HasCheckWarnings<M>)
+      for (auto& w : ModelSetup<M>::check_warnings(model_, c_)) r.warnings.push_back(std::move(w));
     return r;
   }
 

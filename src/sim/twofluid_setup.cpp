@@ -323,8 +323,10 @@ FluxKind ModelSetup<TwoFluid>::flux(const io::RunFile& rf, const TwoFluid& /*m*/
   return resolve_flux(rf, false, false);
 }
 
-std::vector<std::string> ModelSetup<TwoFluid>::warnings(const TwoFluid& m, const CaseSetup& c, real dt) {
+std::vector<std::string> ModelSetup<TwoFluid>::check_warnings(const TwoFluid& m, const CaseSetup& c) {
   std::vector<std::string> w;
+  // The light speed is the fastest signal, so this is the step the run takes.
+  const real dt = c.time.cfl * c.grid.dx() / m.c;
   const real m_i = m.ion.particle_mass, m_e = m.electron.particle_mass;
   if (!c.units.normalized && m.c < constants::c)
     w.push_back("model.light_speed reduces the speed of light by a factor " + num(constants::c / m.c) + " to " +
@@ -340,10 +342,10 @@ std::vector<std::string> ModelSetup<TwoFluid>::warnings(const TwoFluid& m, const
   const real wce = std::abs(m.electron_charge) * c.plasma.field / m_e;
   if (wpe * dt > 1 || wce * dt > 1)
     w.push_back("omega_pe dt = " + num(wpe * dt) + " and Omega_ce dt = " + num(wce * dt) +
-                " at the first step: plasma and cyclotron oscillations are not resolved. The implicit "
-                "source keeps them bounded, but their frequencies are wrong, and slow waves pick up a phase "
-                "error that grows with omega_pe dt (about 1% at omega_pe dt = 50 with 128 cells per "
-                "wavelength; see the README)");
+                " at the step cfl dx/c: plasma and cyclotron oscillations are not resolved. The implicit "
+                "source keeps them bounded, but their frequencies are wrong, and a slow wave resolved by N "
+                "cells per wavelength runs about 5 (omega_pe dt / N)^2 per cent slow (README, two-fluid "
+                "model)");
   return w;
 }
 

@@ -53,8 +53,8 @@ struct ModelSetup<TwoFluid> {
   static std::vector<io::ParameterValue> parameters(const TwoFluid& m, const CaseSetup& c);
   static FluxKind flux(const io::RunFile& rf, const TwoFluid& m);
   /// `tubewave check` warnings: reduced light speed or mass ratio, and unresolved plasma
-  /// or cyclotron oscillations at the first time step dt [s].
-  static std::vector<std::string> warnings(const TwoFluid& m, const CaseSetup& c, real dt);
+  /// or cyclotron oscillations at the light-speed step cfl dx / c.
+  static std::vector<std::string> check_warnings(const TwoFluid& m, const CaseSetup& c);
 };
 
 }  // namespace tw
