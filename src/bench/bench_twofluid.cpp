@@ -11,7 +11,7 @@
 //    n_e = 1e18 m^-3, T_e = 5 eV, T_i = 1 eV, B = 0.1 T along a 10 m tube of 1000 cells,
 //    conducting ends, uniform (the work per step does not depend on the state). Models: two-fluid at the physical
 //    light speed, at c = 10 v_A, and at c = 10 v_A with m_i/m_e = 100; ideal MHD (HLLD) for
-//    comparison; Hall MHD when a build has it (model.equations: hall-mhd). Each run goes
+//    comparison; Hall MHD when a build has it (model.equations: hall). Each run goes
 //    through the ordinary run-file path (setup, stepper, output at the start and end only)
 //    for a fixed number of steps; the cost per transit is wall time per step times the
 //    steps a transit L/v_A takes (the step is constant here).
@@ -146,7 +146,7 @@ int main(int argc, char** argv) {
         {"two-fluid, c = 10 v_A, m_i/m_e = 100",
          std::string("model: {equations: two-fluid, light_speed: ") + reduced + ", mass_ratio: 100}\n"},
         {"ideal MHD (HLLD)", "model: {equations: mhd}\n"},
-        {"Hall MHD", "model: {equations: hall-mhd}\n"},
+        {"Hall MHD", "model: {equations: hall}\n"},
     };
     std::printf("  \"alfven_transit\": {\"case\": \"He+ 1e18 m^-3, 0.1 T, 10 m, 1000 cells, 1 thread\", "
                 "\"v_A_m_per_s\": %.5g, \"transit_s\": %.5g, \"runs\": [\n",

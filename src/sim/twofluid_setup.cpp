@@ -36,12 +36,11 @@ void declare_twofluid_keys(io::Schema& schema) {
       .above(1.0)
       .at_most(3.0);
   model.real("light_speed", "m/s",
-             "two-fluid, SI units: speed of light in Maxwell's equations; a value below 299792458 m/s "
-             "reduces it (default: the physical value)")
+             "a reduced light speed c in Maxwell's equations (default: the physical c of the unit system)")
       .positive();
   model.real("mass_ratio", "",
-             "two-fluid, SI units: ion to electron mass ratio m_i/m_e; a reduced value makes the electron "
-             "heavier, the ion mass is kept (default: the physical ratio)")
+             "two-fluid: a reduced ion to electron mass ratio m_i/m_e; the electron is made heavier, the ion "
+             "mass is kept (default: the unit system's ratio)")
       .above(1.0);
   model.choice("electron_ion_friction", {"none", "spitzer"},
                "two-fluid: electron-ion friction: none, or Spitzer/Braginskii from the local n_e and T_e "
@@ -112,18 +111,19 @@ TwoFluid ModelSetup<TwoFluid>::make(const io::RunFile& rf, const CaseSetup& c) {
   m.c = u.c;
   const real m_i = c.plasma.ion_mass;
   real m_e = u.m_e;
-  if (u.normalized) {
-    if (rf.given("model.light_speed"))
-      rf.fail("model.light_speed", "in normalized units the light speed is normalized.light_speed");
-    if (rf.given("model.mass_ratio"))
-      rf.fail("model.mass_ratio", "in normalized units the mass ratio is normalized.mass_ratio");
-  } else {
-    if (rf.given("model.light_speed")) {
-      m.c = rf.get_real("model.light_speed");
-      if (m.c > constants::c)
-        rf.fail("model.light_speed", "the light speed " + num(m.c) + " m/s exceeds the physical value; it may only be reduced");
-    }
-    if (rf.given("model.mass_ratio")) m_e = m_i / rf.get_real("model.mass_ratio");
+  // Both constants may only be reduced from the unit system's (SI: physical; normalized:
+  // the `normalized` section's).
+  if (rf.given("model.light_speed")) {
+    m.c = rf.get_real("model.light_speed");
+    if (m.c > u.c * (1 + 1e-12))
+      rf.fail("model.light_speed", "the light speed " + num(m.c) + " exceeds the unit system's c = " + num(u.c) +
+                                       "; it may only be reduced");
+  }
+  if (rf.given("model.mass_ratio")) {
+    m_e = m_i / rf.get_real("model.mass_ratio");
+    if (m_e < u.m_e * (1 - 1e-12))
+      rf.fail("model.mass_ratio", "m_i/m_e = " + num(rf.get_real("model.mass_ratio")) + " exceeds the unit system's " +
+                                      num(m_i / u.m_e) + "; it may only be reduced");
   }
   m.eps0 = 1 / (m.mu0 * m.c * m.c);
   m.ion.gamma = rf.get_real("model.gamma");
@@ -286,7 +286,6 @@ bool ModelSetup<TwoFluid>::perturb(const TwoFluid& m, const io::RunFile& rf, con
 std::vector<io::ParameterValue> ModelSetup<TwoFluid>::parameters(const TwoFluid& m, const CaseSetup& c) {
   auto unit = [&](const char* si) { return c.units.unit(si); };
   const real m_i = m.ion.particle_mass, m_e = m.electron.particle_mass;
-  const bool si = !c.units.normalized;
   // The background's frequencies with the model's constants (what the time step meets).
   const PlasmaPoint p = c.plasma.at(c.grid.x_min, c.units);
   const real n_e = p.n_e, n_i = n_e / c.plasma.charge;
@@ -299,12 +298,11 @@ std::vector<io::ParameterValue> ModelSetup<TwoFluid>::parameters(const TwoFluid&
       {"field_x", m.bx, unit("T"), "constant B_x"},
       {"mu0", m.mu0, unit("H/m"), "magnetic permeability of the unit system"},
       {"model_light_speed", m.c, unit("m/s"), "speed of light in the model's Maxwell equations (may be reduced)"},
-      {"light_speed_reduction", si ? constants::c / m.c : 1.0, "1",
-       "physical light speed / model light speed (1: not reduced; normalized units: 1)"},
+      {"light_speed_reduction", m.c / c.units.c, "1", "model_light_speed / light_speed (1 = not reduced)"},
       {"model_permittivity", m.eps0, unit("F/m"), "eps0 = 1/(mu0 c^2) with the model's light speed"},
       {"mass_ratio", m_i / m_e, "1", "ion to electron mass ratio m_i/m_e used by the model"},
-      {"mass_ratio_physical", si ? m_i / constants::m_e : m_i / c.units.m_e, "1",
-       "ion to electron mass ratio with the physical electron mass (normalized: normalized.mass_ratio)"},
+      {"mass_ratio_unreduced", m_i / c.units.m_e, "1",
+       "m_i/m_e of the unit system (SI: the physical electron mass; normalized: normalized.mass_ratio)"},
       {"model_electron_mass", m_e, unit("kg"), "electron mass used by the model"},
       {"model_ion_charge", m.ion_charge, unit("C"), "charge of one ion"},
       {"electron_ion_friction", m.spitzer_friction ? 1.0 : 0.0, "1", "1: Spitzer/Braginskii electron-ion friction on"},
@@ -328,15 +326,15 @@ std::vector<std::string> ModelSetup<TwoFluid>::check_warnings(const TwoFluid& m,
   // The light speed is the fastest signal, so this is the step the run takes.
   const real dt = c.time.cfl * c.grid.dx() / m.c;
   const real m_i = m.ion.particle_mass, m_e = m.electron.particle_mass;
-  if (!c.units.normalized && m.c < constants::c)
-    w.push_back("model.light_speed reduces the speed of light by a factor " + num(constants::c / m.c) + " to " +
+  if (m.c < c.units.c)
+    w.push_back("model.light_speed reduces the speed of light by a factor " + num(c.units.c / m.c) + " to " +
                 num(m.c) + " m/s: eps0 grows by its square, plasma frequencies fall and Debye lengths "
                 "grow by that factor (inertial lengths are unchanged), and only waves much slower than " + num(m.c) +
                 " m/s keep their physical speed (a shear wave runs at v_A/sqrt(1 + v_A^2/c^2))");
-  if (!c.units.normalized && m_e != constants::m_e)
-    w.push_back("model.mass_ratio = " + num(m_i / m_e) + " replaces the physical m_i/m_e = " +
-                num(m_i / constants::m_e) + ": electron inertia, d_e, omega_pe and Omega_ce are those of a "
-                "heavier electron");
+  if (m_e != c.units.m_e)
+    w.push_back("model.mass_ratio = " + num(m_i / m_e) + " replaces the " +
+                (c.units.normalized ? "normalized.mass_ratio " : "physical m_i/m_e = ") + num(m_i / c.units.m_e) +
+                ": electron inertia, d_e, omega_pe and Omega_ce are those of a heavier electron");
   const PlasmaPoint p = c.plasma.at(c.grid.x_min, c.units);
   const real wpe = std::sqrt(p.n_e * m.electron_charge * m.electron_charge / (m.eps0 * m_e));
   const real wce = std::abs(m.electron_charge) * c.plasma.field / m_e;

@@ -61,7 +61,8 @@ TEST_CASE("two-fluid setup: bad input names the key and the reason", "[unit][two
   };
   const std::vector<Case> cases = {
       {{"plasma.electron_temperature=0"}, {"plasma.electron_temperature", "needs T_e > 0"}},
-      {{"model.light_speed=4e8"}, {"model.light_speed", "exceeds the physical value"}},
+      {{"model.light_speed=4e8"}, {"model.light_speed", "exceeds the unit system's c = 2.99792e+08", "only be reduced"}},
+      {{"model.mass_ratio=1e4"}, {"model.mass_ratio", "exceeds the unit system's 7295.3", "only be reduced"}},
       {{"model.closure=isothermal"}, {"model.closure", "adiabatic closure only"}},
       {{"model.resistivity=1e-6"}, {"model.resistivity", "not used by the two-fluid model"}},
       {{"model.neutral_density=1e19"}, {"model.neutral_density", "needs both"}},
@@ -89,19 +90,19 @@ TEST_CASE("two-fluid setup: bad input names the key and the reason", "[unit][two
       for (const auto& e : c.expect) CHECK_THAT(msg, Contains(e));
     }
   }
-  SECTION("normalized units take the light speed and mass ratio from `normalized`") {
+  SECTION("normalized units: the constants may be reduced below the `normalized` ones only; no Spitzer friction") {
     const std::string text = R"(units: normalized
-model: {equations: two-fluid, light_speed: 10}
+normalized: {light_speed: 10}
+model: {equations: two-fluid, light_speed: 20}
 plasma: {density: 1, field: 1, electron_temperature: 0.01, ion_temperature: 0.01}
 grid: {length: 1, cells: 16}
 time: {end: 0.1}
 boundaries: {left: {kind: periodic}, right: {kind: periodic}}
 )";
     const std::string msg = setup_error(dir, {}, text);
-    CHECK_THAT(msg, Contains("case.yaml:2:") && Contains("model.light_speed") && Contains("normalized.light_speed"));
-    std::string text2 = text;
-    text2.replace(text2.find(", light_speed: 10"), 17, "");
-    const std::string msg2 = setup_error(dir, {"model.electron_ion_friction=spitzer"}, text2);
+    CHECK_THAT(msg, Contains("case.yaml:3:") && Contains("model.light_speed") && Contains("exceeds the unit system's c = 10"));
+    CHECK(setup_error(dir, {"model.light_speed=5"}, text).empty());
+    const std::string msg2 = setup_error(dir, {"model.light_speed=5", "model.electron_ion_friction=spitzer"}, text);
     CHECK_THAT(msg2, Contains("model.electron_ion_friction") && Contains("needs SI units"));
   }
 }
@@ -137,10 +138,10 @@ TEST_CASE("two-fluid setup: the reduced constants are recorded in /parameters", 
   REQUIRE(r.summary.outcome == "completed");
   tw::io::H5Reader h(r.file);
   CHECK(h.read_real("/parameters/model_light_speed")[0] == Approx(2997924.58));
-  CHECK(h.read_real("/parameters/light_speed_reduction")[0] == Approx(100));
+  CHECK(h.read_real("/parameters/light_speed_reduction")[0] == Approx(0.01));
   CHECK(h.read_real("/parameters/mass_ratio")[0] == Approx(100));
   const double m_he = 4.002602 * tw::constants::u - tw::constants::m_e;
-  CHECK(h.read_real("/parameters/mass_ratio_physical")[0] == Approx(m_he / tw::constants::m_e));
+  CHECK(h.read_real("/parameters/mass_ratio_unreduced")[0] == Approx(m_he / tw::constants::m_e));
   CHECK(h.read_real("/parameters/model_electron_mass")[0] == Approx(m_he / 100));
   CHECK(h.read_real("/parameters/model_permittivity")[0] ==
         Approx(1 / (tw::constants::mu0 * 2997924.58 * 2997924.58)));
