@@ -14,8 +14,10 @@
 /// the ends (periodic, mirrors, copies, driven plates: all ends of this code) and a secant
 /// approximation otherwise; dependence on cells further in is frozen at their current
 /// values (in the offsets). Costs five ghost fills, O(1) each.
-#include "models/model.hpp"
+#include <cmath>
+
 #include "core/block_tridiagonal.hpp"
+#include "models/model.hpp"
 
 namespace tw {
 
@@ -55,10 +57,18 @@ GhostMap probe_ghost_map(Field<State>& W, const GhostFill<State>& fill, real t, 
   column(0, k1, l0b, r0b);
   column(last, k0, lna, rna);
   column(last, k1, lnb, rnb);
-  g.left_first = {l0a.x, l0b.x, l0a.y, l0b.y};
-  g.right_first = {r0a.x, r0b.x, r0a.y, r0b.y};
-  g.left_last = {lna.x, lnb.x, lna.y, lnb.y};
-  g.right_last = {rna.x, rnb.x, rna.y, rnb.y};
+  // The secants of an exact affine map carry round-off; whole-number coefficients (the
+  // 0 and 1 of copies, mirrors and periodic ends) are restored exactly, so that periodic
+  // ends see bitwise the same values at both ends.
+  auto snap = [](real c) {
+    const real r = std::round(c);
+    return std::abs(c - r) < 1e-10 ? r : c;
+  };
+  auto mat = [&](V2 ca, V2 cb) { return M2{snap(ca.x), snap(cb.x), snap(ca.y), snap(cb.y)}; };
+  g.left_first = mat(l0a, l0b);
+  g.right_first = mat(r0a, r0b);
+  g.left_last = mat(lna, lnb);
+  g.right_last = mat(rna, rnb);
   const V2 x0 = pair(0), xn = pair(last);
   g.left_offset = gl0 - g.left_first * x0 - g.left_last * xn;
   g.right_offset = gr0 - g.right_first * x0 - g.right_last * xn;

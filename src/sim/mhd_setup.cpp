@@ -33,7 +33,10 @@ void declare_mhd_keys(io::Schema& schema) {
 
   io::Section& init = schema.root().section("initial", "the state at t = 0");
   init.choice("mode", {"fast", "alfven", "slow", "entropy"}, "wave: which linear MHD wave").def("alfven");
-  init.choice("direction", {"forward", "backward"}, "wave: travelling toward +x (forward) or -x").def("forward");
+  init.choice("direction", {"forward", "backward", "standing"},
+              "wave, circular: travelling toward +x (forward) or -x (backward); wave: or a standing "
+              "Alfvén wave (standing: the field pattern at rest, the sum of both directions)")
+      .def("forward");
   init.real("amplitude", "", "wave: peak perturbation relative to the background scales "
                              "(density rho0, velocities c_f, fields sqrt(mu0 rho0) c_f, pressure rho0 c_f^2); "
                              "circular: |delta B_perp| / |B0|")
@@ -54,6 +57,8 @@ CircularWave read_circular_wave(const io::RunFile& rf, const CaseSetup& c, const
   CircularWave w;
   const real lambda = rf.has("initial.wavelength") ? rf.get_real("initial.wavelength") : c.grid.length;
   w.k = 2 * constants::pi / lambda;
+  if (rf.get_string("initial.direction") == "standing")
+    rf.fail("initial.direction", "a circular wave travels: choose forward or backward");
   w.direction = rf.get_string("initial.direction") == "forward" ? 1 : -1;
   w.right = rf.get_string("initial.branch") == "right";
   w.db = rf.get_real("initial.amplitude") * std::abs(m.bx);
@@ -254,6 +259,9 @@ bool ModelSetup<Mhd>::perturb(const Mhd& m, const io::RunFile& rf, const CaseSet
   const Grid& g = c.grid;
   const std::string mode = rf.get_string("initial.mode");
   const bool forward = rf.get_string("initial.direction") == "forward";
+  const bool standing = rf.get_string("initial.direction") == "standing";
+  if (standing && mode != "alfven")
+    rf.fail("initial.direction", "a standing wave is available for the Alfvén mode only");
   const real amp = rf.get_real("initial.amplitude");
   const real lambda = rf.has("initial.wavelength") ? rf.get_real("initial.wavelength") : g.length;
   const real k = 2 * constants::pi / lambda;
@@ -272,7 +280,7 @@ bool ModelSetup<Mhd>::perturb(const Mhd& m, const io::RunFile& rf, const CaseSet
     const real ey = bt > 0 ? -W0[Mhd::BZ] / bt : 1.0, ez = bt > 0 ? W0[Mhd::BY] / bt : 0.0;
     const real sgn = m.bx > 0 ? 1.0 : -1.0;
     const real db = std::sqrt(m.mu0 * rho) * cf;  // field scale
-    const real dv = (forward ? -sgn : sgn) * db / std::sqrt(m.mu0 * rho);
+    const real dv = standing ? 0.0 : (forward ? -sgn : sgn) * db / std::sqrt(m.mu0 * rho);
     r[Mhd::BY] = ey * db;
     r[Mhd::BZ] = ez * db;
     r[Mhd::VY] = ey * dv;
