@@ -44,8 +44,9 @@ EndSpec read_end(const io::RunFile& rf, const std::string& key) {
   e.polarization = rf.get_string(key + ".polarization");
   e.ramp_periods = rf.get_real(key + ".ramp_periods");
   if (e.kind == "driven") {
-    if (!rf.given(key + ".frequency") || e.frequency <= 0)
-      rf.fail(key + ".frequency", "a driven end needs a drive frequency > 0");
+    if (!rf.given(key + ".frequency"))  // at the end itself: an absent key has no line
+      rf.fail(key, "a driven end needs a drive frequency: give " + key + ".frequency > 0");
+    if (e.frequency <= 0) rf.fail(key + ".frequency", "a driven end needs a drive frequency > 0");
     if (!rf.given(key + ".velocity_amplitude"))
       rf.fail(key, "a driven end needs velocity_amplitude");
   } else {
@@ -221,7 +222,7 @@ CaseSetup read_case(const io::RunFile& rf, const std::string& output_override) {
       std::ostringstream msg;
       msg << "probe " << k << " at x = " << o.probes[k] << " m is outside the tube ["
           << c.grid.x_min << ", " << c.grid.x_max() << "] m";
-      rf.fail("output.probes", msg.str());
+      rf.fail("output.probes[" + std::to_string(k) + "]", msg.str());
     }
   }
   return c;

@@ -88,6 +88,8 @@ bool ModelSetup<HallMhd>::perturb(const HallMhd& m, const io::RunFile& rf, const
   const std::string kind = rf.get_string("initial.kind");
   if (kind != "circular" && rf.given("initial.branch"))
     rf.fail("initial.branch", "only the circular kind takes 'branch'");
+  if (m.ideal.closure == Closure::adiabatic && kind != "wave")
+    require_pressure(rf, c, [&](int i) { return W[i][HallMhd::P]; });
   if (kind == "circular") {
     // Exact at any amplitude with the Hall dispersion relation (and electron inertia, and
     // the displacement current's inertia eps B_x^2 on u_perp): see hall.hpp.

@@ -2,6 +2,7 @@
 /// Building the MHD model from a run file: the `model` keys it reads, its state from a
 /// plasma, and its eigenmode initial condition (`initial.kind: wave`).
 #include <array>
+#include <functional>
 #include <string>
 #include <vector>
 
@@ -18,6 +19,10 @@ void declare_mhd_keys(io::Schema& schema);
 /// The closure, dissipation and displacement-current keys, shared by every single-fluid
 /// model (the MHD part of Hall MHD reads them too).
 void read_mhd_fluid(const io::RunFile& rf, const CaseSetup& c, Mhd& m);
+
+/// The adiabatic closure needs p > 0 in every cell: fails naming the keys that set the
+/// pressure where pressure(i) (cell i) is not positive.
+void require_pressure(const io::RunFile& rf, const CaseSetup& c, const std::function<real(int)>& pressure);
 
 /// Light speed of the displacement current of m (0 when it is neglected).
 real displacement_light_speed(const Mhd& m);
