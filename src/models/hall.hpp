@@ -51,9 +51,10 @@
 /// - subcycled and implicit: a split step (split_step, Strang splitting around the stages)
 ///   with the density frozen, where the field law above is linear in b. subcycled: SSP-RK3
 ///   sub-steps within the explicit limit; implicit: Crank-Nicolson with one 2x2
-///   block-tridiagonal solve (core/block_tridiagonal.hpp), unconditionally stable, exactly
-///   energy-conserving for the Hall part (the cell's thermal energy is untouched) and with
-///   exact non-negative Ohmic heating. The step then follows the MHD CFL limit.
+///   block-tridiagonal solve (core/block_tridiagonal.hpp), unconditionally stable, energy
+///   conserving (without electron inertia the Hall part leaves every cell's thermal energy
+///   exactly as it was, and the Ohmic heat is exactly eta J^2 >= 0). The step then follows
+///   the MHD CFL limit.
 ///
 /// Primitive W = (rho, u, v, w, B_y, B_z, p, p_e) (p: total thermal pressure); conservative
 /// U = (rho, m_x, m_y, m_z, B'_y, B'_z, E, S) (the first seven as in Mhd).

@@ -100,7 +100,9 @@ struct Mhd {
     const auto e = electric_field(W);
     return 0.5 * eps_disp * (e[0] * e[0] + e[1] * e[1] + e[2] * e[2]);
   }
-  /// Shear Alfvén speed along x [m/s], with the displacement current when it is kept.
+  /// Speed of circularly polarised Alfvén waves along B0 = B_x x [m/s]: B_x^2/(mu0 rho_eff)
+  /// with rho_eff = rho + eps B_x^2 when the displacement current is kept (its inertia acts on
+  /// u_perp, which is parallel to B_perp in these waves).
   [[nodiscard]] real alfven_speed_x(real rho) const {
     const real va2 = bx * bx / (mu0 * rho);
     return std::sqrt(va2 / (1 + eps_disp * mu0 * va2));

@@ -54,7 +54,7 @@
 ///        (half a step before, half after), e.g. an implicit or sub-cycled stiff term
 ///        such as the Hall electric field. It returns the time-integrated fluxes through
 ///        face 0 and face n (for budgets), and must leave U admissible. Skipped while
-///        split_step_active() is false. Detected by HasSplitStep (time/stepper.hpp).
+///        split_step_active() is false. Detected by HasSplitStep (below); run by the Stepper.
 #include <algorithm>
 #include <array>
 #include <concepts>

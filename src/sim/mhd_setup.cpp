@@ -312,7 +312,9 @@ bool ModelSetup<Mhd>::perturb(const Mhd& m, const io::RunFile& rf, const CaseSet
     const real ey = bt > 0 ? -W0[Mhd::BZ] / bt : 1.0, ez = bt > 0 ? W0[Mhd::BY] / bt : 0.0;
     const real sgn = m.bx > 0 ? 1.0 : -1.0;
     const real db = std::sqrt(m.mu0 * rho) * cf;  // field scale
-    const real dv = standing ? 0.0 : (forward ? -sgn : sgn) * db / std::sqrt(m.mu0 * rho);
+    // The velocity is across B0, where the displacement current adds the inertia eps |B0|^2.
+    const real rho_eff = rho + m.eps_disp * (m.bx * m.bx + bt * bt);
+    const real dv = standing ? 0.0 : (forward ? -sgn : sgn) * db / std::sqrt(m.mu0 * rho_eff);
     r[Mhd::BY] = ey * db;
     r[Mhd::BZ] = ez * db;
     r[Mhd::VY] = ey * dv;

@@ -50,10 +50,19 @@ void place(std::vector<std::vector<double>>& a, std::size_t row, std::size_t col
 TEST_CASE("block-tridiagonal solver matches dense elimination, open and periodic", "[unit][numerics]") {
   std::mt19937 gen(7);
   std::uniform_real_distribution<double> u(-1, 1);
-  auto rnd = [&] { return M2{u(gen), u(gen), u(gen), u(gen)}; };
+  for (bool rotation : {false, true})
   for (bool ring : {false, true}) {
+    // General 2x2 blocks, or blocks [[a, b], [-b, a]] (solved in complex arithmetic).
+    auto rnd = [&] {
+      if (rotation) {
+        const double a = u(gen), b = u(gen);
+        return M2{a, b, -b, a};
+      }
+      return M2{u(gen), u(gen), u(gen), u(gen)};
+    };
     for (std::size_t n : {3u, 4u, 17u}) {
-      DYNAMIC_SECTION((ring ? "periodic" : "open") << ", n = " << n) {
+      DYNAMIC_SECTION((rotation ? "rotation blocks, " : "general blocks, ") << (ring ? "periodic" : "open")
+                                                                           << ", n = " << n) {
         std::vector<M2> A(n), B(n), C(n);
         std::vector<V2> r(n);
         for (std::size_t i = 0; i < n; ++i) {
