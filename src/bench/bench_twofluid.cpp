@@ -72,7 +72,7 @@ double throughput_once(int n, int steps) {
       "plasma: {density: 1, field: 1, electron_temperature: 0.05, ion_temperature: 0.05}\n"
       "grid: {length: 6.283185307179586, cells: " + std::to_string(n) + "}\n"
       "time: {end: 1}\n"
-      "initial: {kind: parallel-wave, polarization: right, amplitude: 0.2}\n"
+      "initial: {kind: circular, branch: right, amplitude: 0.2}\n"
       "boundaries: {left: {kind: periodic}, right: {kind: periodic}}\n";
   const io::RunFile rf = load_text("throughput", yaml);
   CaseRunner<TwoFluid> runner(rf, read_case(rf, (scratch() / "t.h5").string()));

@@ -33,7 +33,8 @@ real TwoFluid::electron_ion_collision_frequency(const State& W) const {
   if (!(n_e > 0) || !(te_ev > 0)) return 0;
   // The NRL logarithm falls below 1 only far outside the weakly coupled regime; keep the
   // friction finite there (1 is the smallest value the classical theory could mean).
-  const real ln_lambda = std::max(coulomb_logarithm_nrl(n_e, te_ev, charge_number), real(1));
+  const real ln_lambda =
+      coulomb_logarithm > 0 ? coulomb_logarithm : std::max(coulomb_logarithm_nrl(n_e, te_ev, charge_number), real(1));
   return friction_mass_factor / braginskii_tau_e(n_e, te_ev, charge_number, ln_lambda);
 }
 

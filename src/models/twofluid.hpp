@@ -18,7 +18,7 @@
 /// - electron-ion friction (Braginskii 1965, Rev. Plasma Phys. 1, 205; from memory):
 ///   R_e = -R_i = -rho_e nu_ei [alpha_0 (b.du) b + (du - (b.du) b)], du = u_e - u_i,
 ///   b = B/|B|; nu_ei = 1/tau_e from core/plasma_params.hpp (local n_e, T_e, NRL Coulomb
-///   logarithm) and alpha_0(Z) the parallel-resistivity factor; the frictional heat
+///   logarithm unless one is given) and alpha_0(Z) the parallel-resistivity factor; the frictional heat
 ///   -R_e.du goes to the electrons (Braginskii's Q_e; thermal equilibration Q_Delta is not
 ///   included). With a reduced mass ratio nu_ei is scaled by m_e(physical)/m_e(model), so
 ///   the resistivity m_e nu_ei/(n_e e^2) stays the physical one.
@@ -74,6 +74,7 @@ struct TwoFluid {
   // Collisions (see the file comment).
   bool spitzer_friction = false;  ///< electron-ion friction with the Spitzer/Braginskii nu_ei
   int charge_number = 1;          ///< ion charge number Z (Coulomb logarithm, alpha_0)
+  real coulomb_logarithm = 0;     ///< fixed ln Lambda for the friction; 0: the NRL formula per cell
   real energy_per_eV = 1.602176634e-19;  ///< J per eV (temperatures for the collision time)
   real friction_mass_factor = 1;  ///< m_e(physical) / m_e(model): keeps the resistivity physical
   real neutral_density = 0;       ///< n_n [m^-3] for ion-neutral friction (0: off)

@@ -10,10 +10,8 @@ namespace tw {
 
 namespace {
 
-constexpr const char* kTwoFluidOnlyKeys[] = {"model.electron_gamma",        "model.light_speed",
-                                             "model.mass_ratio",            "model.electron_ion_friction",
-                                             "model.neutral_density",       "model.ion_neutral_cross_section",
-                                             "initial.polarization"};
+constexpr const char* kTwoFluidOnlyKeys[] = {"model.electron_gamma", "model.mass_ratio", "model.electron_ion_friction",
+                                             "model.neutral_density", "model.ion_neutral_cross_section"};
 
 std::string num(real v) {
   std::ostringstream s;
@@ -35,9 +33,6 @@ void declare_twofluid_keys(io::Schema& schema) {
   model.real("electron_gamma", "", "two-fluid: ratio of specific heats of the electron fluid (default: model.gamma)")
       .above(1.0)
       .at_most(3.0);
-  model.real("light_speed", "m/s",
-             "a reduced light speed c in Maxwell's equations (default: the physical c of the unit system)")
-      .positive();
   model.real("mass_ratio", "",
              "two-fluid: a reduced ion to electron mass ratio m_i/m_e; the electron is made heavier, the ion "
              "mass is kept (default: the unit system's ratio)")
@@ -54,11 +49,6 @@ void declare_twofluid_keys(io::Schema& schema) {
       .non_negative()
       .def(0.0);
 
-  io::Section& init = schema.root().section("initial", "the state at t = 0");
-  init.choice("polarization", {"right", "left", "linear"},
-              "parallel-wave: R (electron sense about B0, whistler branch), L (ion sense, ion-cyclotron "
-              "branch), or linear (R + L, polarised along y)")
-      .def("right");
 }
 
 void reject_two_fluid_keys(const io::RunFile& rf, const std::string& model_name) {
@@ -102,9 +92,11 @@ TwoFluid ModelSetup<TwoFluid>::make(const io::RunFile& rf, const CaseSetup& c) {
   TwoFluid m;
   if (rf.get_string("model.closure") != "adiabatic")
     rf.fail("model.closure", "the two-fluid model evolves each fluid's energy (adiabatic closure only)");
-  for (const char* k : {"model.resistivity", "model.viscosity"})
+  for (const char* k : {"model.resistivity", "model.resistivity_model", "model.viscosity"})
     if (rf.given(k))
       rf.fail(k, "not used by the two-fluid model (collisions: model.electron_ion_friction, model.neutral_density)");
+  if (rf.given("model.displacement_current"))
+    rf.fail("model.displacement_current", "the two-fluid model always keeps the displacement current");
   const UnitSystem& u = c.units;
   m.mu0 = u.mu0;
   m.bx = c.plasma.b0()[0];
@@ -140,6 +132,9 @@ TwoFluid ModelSetup<TwoFluid>::make(const io::RunFile& rf, const CaseSetup& c) {
       rf.fail("model.electron_ion_friction", "spitzer friction needs SI units (temperatures in eV)");
     m.spitzer_friction = true;
     m.friction_mass_factor = constants::m_e / m_e;
+    if (rf.given("model.coulomb_logarithm")) m.coulomb_logarithm = rf.get_real("model.coulomb_logarithm");
+  } else if (rf.given("model.coulomb_logarithm")) {
+    rf.fail("model.coulomb_logarithm", "only electron_ion_friction: spitzer uses a Coulomb logarithm");
   }
   const bool nn = rf.given("model.neutral_density"), cs = rf.given("model.ion_neutral_cross_section");
   if (nn != cs)
@@ -181,18 +176,20 @@ TwoFluid::State ModelSetup<TwoFluid>::primitive(const TwoFluid& m, const PlasmaP
 
 bool ModelSetup<TwoFluid>::perturb(const TwoFluid& m, const io::RunFile& rf, const CaseSetup& c, Field<State>& W) {
   const std::string kind = rf.get_string("initial.kind");
-  const bool wave = kind == "parallel-wave", langmuir = kind == "langmuir";
+  const bool wave = kind == "circular", langmuir = kind == "langmuir";
   if (!wave && !langmuir && kind != "uniform" && kind != "riemann") return false;
   if (rf.given("initial.mode")) rf.fail("initial.mode", "the two-fluid model has no 'mode' (that is MHD's wave kind)");
   if (!wave) {
-    for (const char* k : {"direction", "polarization"})
+    for (const char* k : {"direction", "branch"})
       if (rf.given(std::string("initial.") + k))
-        rf.fail(std::string("initial.") + k, "only the parallel-wave kind takes '" + std::string(k) + "'");
+        rf.fail(std::string("initial.") + k, "only the circular kind takes '" + std::string(k) + "'");
+  } else if (rf.get_string("initial.direction") == "standing") {
+    rf.fail("initial.direction", "a circular wave travels: choose forward or backward");
   }
   if (!wave && !langmuir) {
     for (const char* k : {"amplitude", "wavelength"})
       if (rf.given(std::string("initial.") + k))
-        rf.fail(std::string("initial.") + k, "only the parallel-wave and langmuir kinds take '" + std::string(k) + "'");
+        rf.fail(std::string("initial.") + k, "only the circular and langmuir kinds take '" + std::string(k) + "'");
     return true;
   }
   const Grid& g = c.grid;
@@ -218,15 +215,15 @@ bool ModelSetup<TwoFluid>::perturb(const TwoFluid& m, const io::RunFile& rf, con
     return true;
   }
 
-  // parallel-wave: B0 along x, plasma at rest.
+  // circular: B0 along x, plasma at rest.
   const real b0 = std::abs(m.bx);
   if (b0 == 0 || W0[TwoFluid::BY] != 0 || W0[TwoFluid::BZ] != 0)
-    rf.fail("plasma.field_angle_deg", "a parallel-wave needs B0 along the tube (field_angle_deg 0 or 180, field > 0)");
+    rf.fail("plasma.field_angle_deg", "a circular wave needs B0 along the tube (field_angle_deg 0 or 180, field > 0)");
   for (int j : {TwoFluid::ION, TwoFluid::ELECTRON})
     for (int d = Fluid::VX; d <= Fluid::VZ; ++d)
-      if (W0[j + d] != 0) rf.fail("plasma.flow", "a parallel-wave needs a plasma at rest");
+      if (W0[j + d] != 0) rf.fail("plasma.flow", "a circular wave needs a plasma at rest");
   const real ks = rf.get_string("initial.direction") == "forward" ? k : -k;
-  const std::string pol = rf.get_string("initial.polarization");
+  const std::string pol = rf.get_string("initial.branch");
   using cplx = std::complex<real>;
   const cplx I(0, 1);
   // A circularly polarised mode: complex amplitudes of (E_y, E_z), (b_y, b_z) and each

@@ -3,14 +3,15 @@
 /// ratio options, electron gamma, collisions), its state from a plasma (both species with
 /// the background flow, E = -u x B), its initial kinds and its check warnings.
 ///
-/// Initial kinds it adds:
-///   parallel-wave — an exact electromagnetic wave along B0 (B0 along x, uniform plasma at
-///     rest): circularly polarised R (electron sense about B0: the whistler branch) or L
-///     (ion sense: the ion-cyclotron branch), with omega(k) the lowest root of the cold
-///     plasma relation n^2 = R or L (Stix 1992, "Waves in Plasmas", ch. 1-2) for exactly the
-///     run's constants (light speed, masses, charges), or `linear`: R and L of half the
-///     amplitude each, a wave polarised along y whose crests move at the mean of the two
-///     phase speeds. Both fluids and the fields are set from the eigenvector; densities and
+/// Initial kinds it takes besides uniform and riemann:
+///   circular (shared with MHD and Hall MHD) — an exact electromagnetic wave along B0
+///     (B0 along x, uniform plasma at rest), `initial.branch`: right, circularly polarised
+///     R (electron sense about B0: the whistler branch); left, L (ion sense: the
+///     ion-cyclotron branch); or linear (two-fluid only), R and L of half the amplitude
+///     each, polarised along y, crests moving at the mean of the two phase speeds.
+///     omega(k) is the lowest root of the cold-plasma relation n^2 = R or L (Stix 1992,
+///     "Waves in Plasmas", ch. 1-2) for exactly the run's constants (light speed, masses,
+///     charges). Both fluids and the fields are set from the eigenvector; densities and
 ///     pressures stay uniform, which makes the wave an exact solution of the nonlinear
 ///     equations at any amplitude (pressure does not enter it).
 ///   langmuir — a standing electron density wave n_e = n_e0 (1 + a cos kx) (adiabatic
@@ -24,12 +25,13 @@
 
 namespace tw {
 
-/// Keys of the `model` section read by the two-fluid model, and `initial.polarization`.
-/// Reuses model.gamma and initial.amplitude / wavelength / direction, declared by MHD.
+/// Keys of the `model` section read only by the two-fluid model. Reuses model.gamma,
+/// model.light_speed, model.coulomb_logarithm and initial.amplitude / wavelength / direction
+/// / branch, declared with MHD's keys.
 void declare_twofluid_keys(io::Schema& schema);
 
 /// The initial kinds the two-fluid model adds to `initial.kind`.
-inline std::vector<std::string> twofluid_initial_kinds() { return {"parallel-wave", "langmuir"}; }
+inline std::vector<std::string> twofluid_initial_kinds() { return {"langmuir"}; }
 
 /// Fails (ConfigError naming the key) if a key only the two-fluid model reads is given to
 /// another model.

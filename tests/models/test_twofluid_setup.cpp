@@ -68,16 +68,23 @@ TEST_CASE("two-fluid setup: bad input names the key and the reason", "[unit][two
       {{"model.neutral_density=1e19"}, {"model.neutral_density", "needs both"}},
       {{"numerics.flux=hlld"}, {"numerics.flux", "hlld is available for adiabatic MHD only"}},
       {{"initial.kind=wave"}, {"initial.kind", "not available for the two-fluid model"}},
-      {{"initial.kind=parallel-wave", "plasma.field_angle_deg=30"}, {"plasma.field_angle_deg", "needs B0 along the tube"}},
-      {{"initial.kind=parallel-wave", "plasma.flow=[0, 1000, 0]"}, {"plasma.flow", "plasma at rest"}},
+      {{"initial.kind=circular", "plasma.field_angle_deg=30"}, {"plasma.field_angle_deg", "needs B0 along the tube"}},
+      {{"initial.kind=circular", "plasma.flow=[0, 1000, 0]"}, {"plasma.flow", "plasma at rest"}},
       {{"initial.kind=langmuir", "initial.amplitude=1.5"}, {"initial.amplitude", "below 1"}},
-      {{"initial.kind=langmuir", "initial.direction=backward"}, {"initial.direction", "only the parallel-wave kind"}},
+      {{"initial.kind=langmuir", "initial.direction=backward"}, {"initial.direction", "only the circular kind"}},
       {{"initial.mode=fast"}, {"initial.mode", "MHD's wave kind"}},
       {{"boundaries.left.kind=driven", "boundaries.left.frequency=1e6", "boundaries.left.velocity_amplitude=10"},
        {"boundaries.left.kind", "cannot be driven"}},
       // The other model must not silently ignore the two-fluid keys.
       {{"model.equations=mhd", "model.mass_ratio=100"}, {"model.mass_ratio", "only the two-fluid model reads this key"}},
       {{"model.equations=mhd", "initial.kind=langmuir"}, {"initial.kind", "not available for the mhd model"}},
+      {{"model.equations=hall", "model.electron_ion_friction=spitzer"},
+       {"model.electron_ion_friction", "only the two-fluid model reads this key"}},
+      {{"model.equations=mhd", "initial.kind=circular", "initial.branch=linear"},
+       {"initial.branch", "two-fluid model only"}},
+      {{"model.displacement_current=true"}, {"model.displacement_current", "always keeps the displacement current"}},
+      {{"model.coulomb_logarithm=10"}, {"model.coulomb_logarithm", "only electron_ion_friction: spitzer"}},
+      {{"initial.kind=circular", "initial.direction=standing"}, {"initial.direction", "a circular wave travels"}},
   };
   for (const auto& c : cases) {
     std::string label;

@@ -81,7 +81,7 @@ double max_abs(const std::vector<double>& v) {
 TEST_CASE("two-fluid: parallel R and L waves travel at the Stix phase speeds within 1%", "[validation][twofluid]") {
   // For each target omega/Omega_ci the wavenumber is k = (omega/c) sqrt(R or L), the root of
   // n^2 = R (L) with both species and the displacement current, computed here for the run's
-  // own constants; the run file asks for a parallel-wave of that wavelength (whose omega the
+  // own constants; the run file asks for a circular wave of that wavelength (whose omega the
   // solver finds by itself), and the measured omega must be the target within 1%. 64 cells
   // per wavelength, one period, unlimited PLM: the scheme's phase error there is ~0.2%
   // (second order), so 1% leaves room and still catches a wrong branch or a factor.
@@ -108,7 +108,7 @@ TEST_CASE("two-fluid: parallel R and L waves travel at the Stix phase speeds wit
         const double lambda = 2 * pi / k, period = 2 * pi / cs.w;
         const RunOutput r = run_text(
             run_file(st.mu, st.c, lambda, st.cells, period,
-                     std::string("{kind: parallel-wave, polarization: ") + cs.pol + ", amplitude: 1.0e-3}"),
+                     std::string("{kind: circular, branch: ") + cs.pol + ", amplitude: 1.0e-3}"),
             {}, dir);
         REQUIRE(r.summary.outcome == "completed");
         const double w = measured_omega(r, "magnetic_field_y", k, cs.w);
@@ -136,7 +136,7 @@ TEST_CASE("two-fluid: the low-frequency shear wave travels at v_A/sqrt(1 + v_A^2
       const double v = va / std::sqrt(1 + va * va / (c * c));
       const double lambda = 2 * pi / kdi, period = lambda / v;
       const RunOutput r = run_text(
-          run_file(mu, c, lambda, 64, period, "{kind: parallel-wave, polarization: linear, amplitude: 1.0e-3}"), {}, dir);
+          run_file(mu, c, lambda, 64, period, "{kind: circular, branch: linear, amplitude: 1.0e-3}"), {}, dir);
       REQUIRE(r.summary.outcome == "completed");
       const double w = measured_omega(r, "magnetic_field_y", kdi, kdi * v);
       INFO("v_A/sqrt(1+v_A^2/c^2) = " << v << ", measured " << w / kdi);
@@ -165,7 +165,7 @@ TEST_CASE("two-fluid: at omega_pe dt = 50 a low-frequency wave stays bounded and
   const double t_end = dt * std::round(2 * lambda / v / dt);  // a whole number of steps
   // Outputs only at the start and the end, so every step has the full length.
   const RunOutput r = run_text(run_file(mu, c, lambda, 128, t_end,
-                                        "{kind: parallel-wave, polarization: linear, amplitude: 1.0e-3}", 0.0025, "",
+                                        "{kind: circular, branch: linear, amplitude: 1.0e-3}", 0.0025, "",
                                         ", history_interval: " + num(t_end)),
                                {}, dir);
   REQUIRE(r.summary.outcome == "completed");
