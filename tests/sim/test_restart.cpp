@@ -35,6 +35,14 @@ namespace {
 const std::vector<std::string> demo_short{"grid.cells=200", "time.end=6e-6"};
 /// The Brio & Wu shock tube, shortened: shocks, zero-gradient ends, no probes.
 const std::vector<std::string> brio_wu_short{"grid.cells=200", "time.end=0.05"};
+/// Hall MHD whistler with implicit Hall stepping and electron inertia: a split step (its end
+/// fluxes join the integrals) and primitives that couple the whole grid.
+const std::vector<std::string> hall_short{"time.end=0.6", "model.hall_stepping=implicit",
+                                          "model.electron_inertia=true"};
+/// Two-fluid: a whistler with a probe (the stiff source is Strang-split), and a shock tube
+/// (the model's whole-tube diagnostics go to /history).
+const std::vector<std::string> two_fluid_whistler_short{"time.end=1e-7"};
+const std::vector<std::string> two_fluid_tube_short{"grid.cells=200", "time.end=1"};
 
 tw::RunSummary run_to(const std::string& config, const std::vector<std::string>& overrides, const fs::path& out,
                       long stop_at_step = -1) {
@@ -72,7 +80,9 @@ tw::RunSummary continue_from(const fs::path& checkpoint, long stop_at_step = -1,
 void require_identical(const fs::path& a, const fs::path& b) {
   int compared = 0;
   const auto diffs = tw::test::bitwise_differences(a.string(), b.string(), &compared);
-  for (const auto& d : diffs) INFO(d);
+  std::string listed;
+  for (const auto& d : diffs) listed += d + "\n";
+  INFO(listed);
   CHECK(diffs.empty());
   CHECK(compared >= 8);  // grid, parameters, snapshot and history columns at least
   const tw::io::H5Reader ra(a.string()), rb(b.string());
@@ -121,7 +131,10 @@ void set_root_string(const fs::path& file, const char* name, const std::string& 
 TEST_CASE("restart: a run stopped twice and continued is bitwise the uninterrupted run", "[unit][restart]") {
   const auto [config, overrides, first_stop, second_stop] = GENERATE(
       std::make_tuple(std::string("configs/demo_column.yaml"), demo_short, 150L, 400L),
-      std::make_tuple(std::string("configs/brio_wu_shock_tube.yaml"), brio_wu_short, 37L, 90L));
+      std::make_tuple(std::string("configs/brio_wu_shock_tube.yaml"), brio_wu_short, 37L, 90L),
+      std::make_tuple(std::string("configs/hall_whistler.yaml"), hall_short, 300L, 700L),
+      std::make_tuple(std::string("configs/two_fluid_whistler.yaml"), two_fluid_whistler_short, 300L, 700L),
+      std::make_tuple(std::string("configs/two_fluid_shock_tube.yaml"), two_fluid_tube_short, 60L, 150L));
   INFO(config);
   const ScratchDir dir("restart-chain");
   const fs::path ref = dir / "ref.h5", out = dir / "run.h5", ckpt = dir / "run.checkpoint.h5";
@@ -168,7 +181,8 @@ TEST_CASE("restart: a run stopped twice and continued is bitwise the uninterrupt
   CHECK(h.attr_int("/status", "restarts") == 2);
   CHECK(h.is_complete());
   // Nothing but the outputs and the checkpoint is left behind.
-  CHECK(entries(dir.path()) == std::vector<std::string>{"ref.h5", "run.checkpoint.h5", "run.h5"});
+  CHECK(entries(dir.path()) ==
+        std::vector<std::string>{"ref.h5", "ref.xmf", "run.checkpoint.h5", "run.h5", "run.xmf"});
 }
 
 TEST_CASE("restart: periodic checkpoints leave the result unchanged and can be continued", "[unit][restart]") {
@@ -216,7 +230,7 @@ TEST_CASE("restart: keys that steer bookkeeping may change, the case may not", "
   }
   // Refused restarts write nothing: the output is as it was, no file was added.
   CHECK(bytes_of(out) == before);
-  CHECK(entries(dir.path()) == std::vector<std::string>{"run.checkpoint.h5", "run.h5"});
+  CHECK(entries(dir.path()) == std::vector<std::string>{"run.checkpoint.h5", "run.h5", "run.xmf"});
 }
 
 TEST_CASE("restart: a checkpoint of another build, model or run is refused with exit code 2", "[unit][restart]") {
@@ -263,7 +277,8 @@ TEST_CASE("restart: a checkpoint of another build, model or run is refused with 
   CHECK_THAT(r.output, Contains(expect));
   CHECK(bytes_of(out) == before);
   CHECK(bytes_of(other) == other_before);
-  CHECK(entries(dir.path()) == std::vector<std::string>{"other.h5", "run.checkpoint.h5", "run.h5"});
+  CHECK(entries(dir.path()) ==
+        std::vector<std::string>{"other.h5", "other.xmf", "run.checkpoint.h5", "run.h5", "run.xmf"});
 }
 
 TEST_CASE("restart: an output older than the checkpoint is refused", "[unit][restart]") {
