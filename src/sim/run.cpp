@@ -1,6 +1,7 @@
 #include "sim/run.hpp"
 
 #include "sim/case.hpp"
+#include "sim/drives.hpp"
 #include "sim/initial.hpp"
 #include "sim/mhd_setup.hpp"
 #include "sim/runner.hpp"
@@ -26,6 +27,7 @@ io::Schema build_schema() {
   model.choice("equations", equation_names(), "the model: ideal/resistive MHD").def("mhd");
   model.choice("form", form_names(), "full nonlinear equations").def("nonlinear");
   declare_case_keys(s);
+  declare_drive_keys(s);
   std::vector<std::string> kinds = mhd_initial_kinds();
   declare_initial_keys(s, kinds);
   declare_mhd_keys(s);
