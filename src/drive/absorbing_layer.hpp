@@ -5,7 +5,7 @@
 ///     dU/dt += -sigma(x) (U - U_ref(x)),   sigma = sigma_max s^p,
 ///
 /// with s = (distance into the layer) / width in [0, 1] and p = 1, 2 or 3 (linear,
-/// quadratic, cubic profile); U_ref is the initial (background) state. A wave crossing the
+/// quadratic, cubic profile); U_ref is the initial state (the background of a driven run). A wave crossing the
 /// layer and back is damped by about exp(-2 sigma_max width / ((p + 1) v)); the smooth
 /// onset keeps the layer's own reflection small. The step is limited to dt < 1/sigma_max.
 /// The energy it removes is reported (power < 0) so budgets still close.

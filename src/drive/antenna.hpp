@@ -8,10 +8,14 @@
 ///   is K(t) = integral of J_ext dx [A/m].
 /// - velocity, field: the transverse velocity or field is pulled toward the prescribed
 ///   value v_d(t) (b_d(t) added to the background field) at the rate nu w(x):
-///   dU/dt += nu w(x) (U(W_d) - U(W)), where W_d is the cell's primitive state with the
-///   transverse quantity replaced. This is the force (or the induced field) of an antenna
+///   dU/dt += nu w(x) (dU/dW) (W_d - W), where W_d is the cell's primitive state with the
+///   transverse quantity replaced: in MHD the force nu w rho (v_d - v) and its work, or
+///   the field source nu w (b_d - b) and its magnetic energy. This is the force (or the induced field) of an antenna
 ///   that holds the plasma near the prescribed motion; nu is a relaxation rate [1/s] and
-///   limits the step to dt < 1/(nu max w).
+///   limits the step to dt < 1/(nu max w). How closely the plasma follows: a region of
+///   integrated weight W = integral of w dx, short compared with the wavelength, that
+///   radiates shear Alfven waves both ways (load 2 rho v_A per unit area) moves at
+///   v = v_d / (1 + 2 v_A / (nu W)); the force per area nu rho W (v_d - v) balances the load.
 ///
 /// Spatial weights (centre c, width d):
 ///   top-hat   1 for |x - c| < d/2 - e/2, 0 beyond d/2 + e/2, a cos^2 edge of width e in
@@ -151,10 +155,15 @@ class AntennaSource final : public SourceTerm<M> {
     } else {
       if constexpr (HasTransverseField<M>) m.set_transverse_field(Wd, b0_[0] + d[0], b0_[1] + d[1]);
     }
-    const State U = m.cons_from_prim(W), Ud = m.cons_from_prim(Wd);
+    // The change of U along the primitive change dW = W_d - W, to first order (a central
+    // difference, exact for a conservative map quadratic in velocity and field, as in
+    // MHD): a pure force (or field source) and its work, with no frictional heating.
+    State Wm = W;
+    for (int j = 0; j < N; ++j) Wm[j] = 2 * W[j] - Wd[j];
+    const State Up = m.cons_from_prim(Wd), Um = m.cons_from_prim(Wm);
     State S;
-    const real r = nu_ * w;
-    for (int j = 0; j < N; ++j) S[j] = r * (Ud[j] - U[j]);
+    const real r = 0.5 * nu_ * w;
+    for (int j = 0; j < N; ++j) S[j] = r * (Up[j] - Um[j]);
     return S;
   }
 

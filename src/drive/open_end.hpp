@@ -1,8 +1,9 @@
 #pragma once
 /// An open (non-reflecting) end: waves leave through it without returning.
 ///
-/// Characteristic treatment, linearised about a reference state U_ref (the background at
-/// the end, fixed at the start of the run). With the flux Jacobian A = dF/dU at U_ref
+/// Characteristic treatment, linearised about a reference state U_ref: the initial state
+/// of the end cell, i.e. what lies beyond the end as the run starts (a uniform extension
+/// of the initial data). With the flux Jacobian A = dF/dU at U_ref
 /// decomposed as A = R Lambda L, the interior cell next to the end carries the
 /// characteristic amplitudes a = L (U_int - U_ref). The ghost cells get
 ///

@@ -4,6 +4,7 @@
 /// drive needs transverse_velocity, a field drive transverse_field, a current antenna
 /// external_current_source, antenna power and absorbing layers energy_density; a model
 /// without them gets a ConfigError naming the key.
+#include <algorithm>
 #include <memory>
 #include <sstream>
 #include <string>
@@ -42,18 +43,13 @@ struct BuiltDrives {
 namespace detail {
 
 template <Model M>
-typename M::State background_state(const M& m, const CaseSetup& c, real x) {
-  return ModelSetup<M>::primitive(m, c.plasma.at(x, c.units), c);
-}
-
-template <Model M>
 std::shared_ptr<const Boundary<M>> make_end(const io::RunFile& rf, const CaseSetup& c, const M& m,
-                                            const EndSpec& e, Side side, BuiltDrives<M>& out) {
+                                            const Field<typename M::State>& W0, const EndSpec& e, Side side,
+                                            BuiltDrives<M>& out) {
   if (e.kind == "periodic") return std::make_shared<PeriodicBoundary<M>>();
   if (e.kind == "zero-gradient") return std::make_shared<ZeroGradientBoundary<M>>();
   if (e.kind == "conducting") return std::make_shared<ConductingBoundary<M>>();
   const Grid& g = c.grid;
-  const real x_end = side == Side::left ? g.x_min : g.x_max();
   const auto b0 = c.plasma.b0();
   if (e.kind == "driven") {
     DriveSpec d = read_drive(rf, e.key, false);
@@ -81,14 +77,15 @@ std::shared_ptr<const Boundary<M>> make_end(const io::RunFile& rf, const CaseSet
   }
   if (e.kind == "open") {
     const OpenEndSpec o = read_open_end(rf, e.key);
-    const auto W_ref = background_state(m, c, x_end);
+    // The reference is the initial state at the end: what lies beyond it as the run starts.
+    const auto W_ref = W0[side == Side::left ? 0 : g.n_cells - 1];
     if (o.layer_width > 0) {
       if constexpr (HasEnergyDensity<M>) {
         if (o.layer_width >= g.length) rf.fail(e.key + ".layer_width", "the absorbing layer is wider than the tube");
         const real v = m.signal_speeds(W_ref).abs_max();
         const real sigma = o.layer_damping ? *o.layer_damping : 5.0 * (o.layer_power + 1) * v / o.layer_width;
         Field<typename M::State> U_ref(g);
-        for (int i = 0; i < g.n_cells; ++i) U_ref[i] = m.cons_from_prim(background_state(m, c, g.x_centre(i)));
+        for (int i = 0; i < g.n_cells; ++i) U_ref[i] = m.cons_from_prim(W0[i]);
         auto layer = std::make_shared<AbsorbingLayer<M>>(side, g, o.layer_width, o.layer_power, sigma, U_ref);
         if (layer->cell_count() == 0) rf.fail(e.key + ".layer_width", "the absorbing layer covers no cell; make it wider than a cell");
         out.layer_sources.push_back(static_cast<int>(out.sources.size()));
@@ -103,9 +100,8 @@ std::shared_ptr<const Boundary<M>> make_end(const io::RunFile& rf, const CaseSet
 }
 
 template <Model M>
-void make_antenna(const io::RunFile& rf, const CaseSetup& c, const M& m, const AntennaSpec& a, std::size_t index,
-                  BuiltDrives<M>& out) {
-  (void)m;
+void make_antenna(const io::RunFile& rf, const CaseSetup& c, const M& m, const Field<typename M::State>& W0,
+                  const AntennaSpec& a, std::size_t index, BuiltDrives<M>& out) {
   const std::string key = "antennas[" + std::to_string(index) + "]";
   if constexpr (!HasEnergyDensity<M>) {
     rf.fail(key, std::string("the ") + M::name() + " model has no energy density, which antennas need");
@@ -129,24 +125,32 @@ void make_antenna(const io::RunFile& rf, const CaseSetup& c, const M& m, const A
       info.sheet_length = cells.integral(c.grid.dx());
       if (a.drive.sheet_current) info.signal.amplitude = *a.drive.sheet_current / info.sheet_length;
     }
+    real nu = a.relaxation_rate;
+    if (q != DriveQuantity::current && nu <= 0) {
+      // Default: 20 v / W, with v the fastest signal speed at the antenna and W the
+      // integral of its shape, so the plasma follows the drive to about 10% (see antenna.hpp).
+      const int ic = std::clamp(static_cast<int>((a.shape.centre - c.grid.x_min) / c.grid.dx()), 0, c.grid.n_cells - 1);
+      nu = 20 * m.signal_speeds(W0[ic]).abs_max() / cells.integral(c.grid.dx());
+    }
     const auto b0 = c.plasma.b0();
     info.source = static_cast<int>(out.sources.size());
-    out.sources.push_back(std::make_shared<AntennaSource<M>>(a.name, q, info.signal, std::move(cells),
-                                                            a.relaxation_rate, std::array<real, 2>{b0[1], b0[2]}));
+    out.sources.push_back(std::make_shared<AntennaSource<M>>(a.name, q, info.signal, std::move(cells), nu,
+                                                            std::array<real, 2>{b0[1], b0[2]}));
     out.drives.push_back(info);
   }
 }
 
 }  // namespace detail
 
-/// Build both ends and every antenna of the run.
+/// Build both ends and every antenna of the run. `W0`: the initial primitive state, the
+/// reference of open ends and absorbing layers.
 template <Model M>
-BuiltDrives<M> build_drives(const io::RunFile& rf, const CaseSetup& c, const M& m) {
+BuiltDrives<M> build_drives(const io::RunFile& rf, const CaseSetup& c, const M& m, const Field<typename M::State>& W0) {
   BuiltDrives<M> out;
-  out.left = detail::make_end(rf, c, m, c.left, Side::left, out);
-  out.right = detail::make_end(rf, c, m, c.right, Side::right, out);
+  out.left = detail::make_end(rf, c, m, W0, c.left, Side::left, out);
+  out.right = detail::make_end(rf, c, m, W0, c.right, Side::right, out);
   const auto antennas = read_antennas(rf, c);
-  for (std::size_t i = 0; i < antennas.size(); ++i) detail::make_antenna(rf, c, m, antennas[i], i, out);
+  for (std::size_t i = 0; i < antennas.size(); ++i) detail::make_antenna(rf, c, m, W0, antennas[i], i, out);
   return out;
 }
 

@@ -202,7 +202,7 @@ void declare_drive_keys(io::Schema& schema) {
   ant.real("edge", "m", "top-hat: width of each smooth (cos^2) edge (default width/10)").non_negative();
   ant.real("relaxation_rate", "1/s",
            "velocity and field antennas: rate at which the plasma is pulled to the prescribed value "
-           "(default 20 x frequency)")
+           "(default 20 v / W: v the fastest wave speed there, W the integral of the shape)")
       .positive();
   declare_drive_common(ant, true);
 
@@ -319,10 +319,6 @@ std::vector<AntennaSpec> read_antennas(const io::RunFile& rf, const CaseSetup& c
         rf.fail(key + ".relaxation_rate", "a current antenna has no relaxation rate");
     } else if (rf.has(key + ".relaxation_rate")) {
       a.relaxation_rate = rf.get_real(key + ".relaxation_rate");
-    } else {
-      const real f = a.drive.signal.waveform.frequency();
-      if (f <= 0) rf.fail(key, "this waveform has no carrier frequency: give relaxation_rate");
-      a.relaxation_rate = 20 * f;
     }
     out.push_back(std::move(a));
   }

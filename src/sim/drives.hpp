@@ -38,7 +38,7 @@ struct AntennaSpec {
   std::string name;
   AntennaShape shape;
   DriveSpec drive;
-  real relaxation_rate = 0;  ///< [1/s] velocity and field antennas
+  real relaxation_rate = 0;  ///< [1/s] velocity and field antennas (0: the default, set by the model setup)
 };
 
 /// Open-end options.

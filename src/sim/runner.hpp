@@ -75,7 +75,7 @@ class CaseRunner {
     scheme_ = c_.scheme;
     scheme_.flux = ModelSetup<M>::flux(rf, model_);
     // Ends, antennas and absorbing layers (sim/drive_setup.hpp), and their diagnostics.
-    BuiltDrives<M> drives = build_drives<M>(rf, c_, model_);
+    BuiltDrives<M> drives = build_drives<M>(rf, c_, model_, W);
     FvOperator<M> op(g, scheme_, drives.left, drives.right);
     for (auto& s : drives.sources) op.add_source(s);
     stepper_.emplace(std::move(op), c_.time);
@@ -251,7 +251,7 @@ class CaseRunner {
         ++sum.snapshots;
       }
     }
-    waves_->finish(out, t);
+    sum.notes = waves_->finish(out, t);
     const double wall = std::chrono::duration<double>(clock::now() - t0).count();
     out.close_as(outcome, message, step, t, wall);
     report(true);

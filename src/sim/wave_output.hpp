@@ -21,6 +21,7 @@
 #include <cmath>
 #include <limits>
 #include <optional>
+#include <sstream>
 #include <string>
 #include <vector>
 
@@ -205,8 +206,10 @@ class WaveOutput {
     }
   }
 
-  /// Summaries after the run (t_end: the time reached).
-  void finish(io::OutputFile& out, real t_end) {
+  /// Summaries after the run (t_end: the time reached); returns one line per drive and
+  /// region for the log.
+  std::vector<std::string> finish(io::OutputFile& out, real t_end) {
+    std::vector<std::string> notes;
     const std::string e = c_.units.unit("J m^-2"), p = c_.units.unit("W m^-2"), s = c_.units.unit("s");
     for (std::size_t j = 0; j < drives_.size(); ++j) {
       const DriveInfo& d = drives_[j];
@@ -237,6 +240,14 @@ class WaveOutput {
           {"load", load, c_.units.unit("kg m^-2 s^-1"),
            "velocity drive: mean power / mean square velocity, the force per unit area and velocity (NaN otherwise)"},
       };
+      std::ostringstream note;
+      note.precision(4);
+      note << d.name << " (" << drive_quantity_name(d.quantity) << " drive at " << d.location << "): mean power "
+           << pm << " W/m^2 over [" << win[0] << ", " << win[1] << "] s, energy " << records_[j].last() << " J/m^2";
+      if (std::isfinite(resistance)) note << ", radiation resistance " << resistance << " ohm";
+      if (std::isfinite(load)) note << ", load " << load << " kg/(m^2 s)";
+      if (c_.units.normalized) note << " (code units)";
+      notes.push_back(note.str());
       out.write_scalars("antennas/" + d.name, vals,
                         {{"location", d.location},
                          {"quantity", drive_quantity_name(d.quantity)},
@@ -258,7 +269,13 @@ class WaveOutput {
           {"delay", r.delay, s, "delay between incident and reflected signals at `from`"},
       };
       out.write_scalars("regions/" + mtr.name(), vals);
+      std::ostringstream note;
+      note.precision(4);
+      note << "region " << mtr.name() << " (" << mtr.from() << " -> " << mtr.to() << " m): reflection "
+           << r.reflection << " (velocity " << r.velocity_reflection << "), energy transmission " << r.transmission;
+      notes.push_back(note.str());
     }
+    return notes;
   }
 
   [[nodiscard]] const std::vector<DriveInfo>& drives() const { return drives_; }
