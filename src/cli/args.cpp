@@ -273,7 +273,12 @@ std::string ArgParser::positional_value(const std::string& name) const {
 
 std::string ArgParser::help_text() const {
   std::string out = "usage: tubewave " + command_ + " " + synopsis_ + "\n";
-  if (!description_.empty()) out += "\n" + wrap(description_, 88) + "\n";
+  if (!description_.empty()) {
+    // Appended piecewise: "literal" + std::string&& trips a false -Wrestrict in GCC 12.
+    out += '\n';
+    out += wrap(description_, 88);
+    out += '\n';
+  }
 
   struct Line {
     std::string left, help;

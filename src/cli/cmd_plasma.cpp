@@ -1,10 +1,12 @@
 /// `tubewave plasma`: the derived parameters of a uniform plasma, as a text table or JSON.
 ///
-/// The work is split so that a PlasmaInput can come from somewhere other than flags
-/// (a run file, later): input_from_flags() -> derive_plasma_parameters() -> print_table()
-/// or print_json(). Everything is computed and validated before anything is printed.
+/// The input comes from flags or from a run file's `plasma` section (at one position along
+/// the tube): input_from_flags() / input_from_run_file() -> derive_plasma_parameters() ->
+/// format_table() or format_json(). Everything is computed and validated before anything
+/// is printed.
 #include <algorithm>
 #include <charconv>
+#include <cmath>
 #include <cstdio>
 #include <iostream>
 #include <optional>
@@ -17,6 +19,8 @@
 #include "core/error.hpp"
 #include "core/plasma_params.hpp"
 #include "core/species.hpp"
+#include "sim/case.hpp"
+#include "sim/run.hpp"
 #include "tubewave/version.hpp"
 
 namespace tw::cli {
@@ -29,7 +33,7 @@ struct LabelledInput {
 };
 
 ArgParser make_parser() {
-  ArgParser p("plasma", "--n N_M3 --B B_T (--ion NAME | --mass-amu M) [options]",
+  ArgParser p("plasma", "(--n N_M3 --B B_T (--ion NAME | --mass-amu M) [options] | RUN.yaml [--at X_M])",
               "Print the derived parameters of a uniform, quasi-neutral plasma with one ion\n"
               "species: Alfvén speeds, cyclotron, plasma and lower hybrid frequencies (rad/s\n"
               "and Hz), inertial lengths, gyroradii, Debye length, beta, Coulomb logarithm,\n"
@@ -37,7 +41,12 @@ ArgParser make_parser() {
               "Thermal speeds are sqrt(kT/m). A zero temperature is allowed (cold plasma):\n"
               "thermal quantities are then 0 and the collisional ones are omitted.\n"
               "\n"
+              "Instead of the flags, a run file gives the plasma of its `plasma` section at the\n"
+              "position --at (default: the left end of the tube).\n"
+              "\n"
               "ions: " + known_species_list() + ".");
+  p.positional("RUN.yaml", "a run file to take the plasma from (instead of the flags)", false)
+      .option("at", "X_M", "with a run file: position along the tube [m] (default: the left end)");
   p.option("n", "N_M3", "electron density [m^-3] (> 0); the ion density is n/Z")
       .option("B", "B_T", "magnetic field strength [T] (> 0)")
       .option("ion", "NAME", "ion species by symbol or name, e.g. H, D, He, Ar, argon")
@@ -101,6 +110,39 @@ LabelledInput input_from_flags(const ArgParser& args) {
   if (args.has("Te")) in.Te_eV = checked_real(args, "Te", non_negative, ">= 0 (eV)");
   if (args.has("Ti")) in.Ti_eV = checked_real(args, "Ti", non_negative, ">= 0 (eV)");
   if (args.has("lnlambda")) in.ln_lambda = checked_real(args, "lnlambda", positive, "> 0");
+  return out;
+}
+
+/// The plasma of a run file's `plasma` section at one position.
+LabelledInput input_from_run_file(const ArgParser& args) {
+  for (const char* flag : {"n", "B", "ion", "mass-amu", "charge", "Te", "Ti"})
+    if (args.has(flag))
+      throw InputError(std::string("option --") + flag +
+                       ": give either a run file or the plasma flags, not both; " + args.help_hint());
+  const io::RunFile rf = load_run_file(args.positional_value("RUN.yaml"));
+  const CaseSetup c = read_case(rf);
+  if (c.units.normalized)
+    throw InputError(rf.source_name() + ": the run uses normalized units; derived SI parameters need an SI run file");
+  real x = c.grid.x_min;
+  if (args.has("at")) {
+    x = args.real_value("at");
+    if (x < c.grid.x_min || x > c.grid.x_max())
+      throw InputError("option --at: " + args.value("at") + " m is outside the tube [" + std::to_string(c.grid.x_min) +
+                       ", " + std::to_string(c.grid.x_max()) + "] m; " + args.help_hint());
+  }
+  const PlasmaPoint pt = c.plasma.at(x, c.units);
+  LabelledInput out;
+  out.ion = c.plasma.ion_name == "custom" ? "" : c.plasma.ion_name;
+  out.input.n_e = pt.n_e;
+  out.input.B = std::sqrt(pt.field[0] * pt.field[0] + pt.field[1] * pt.field[1] + pt.field[2] * pt.field[2]);
+  out.input.ion_mass = c.plasma.ion_mass;
+  out.input.Z = c.plasma.charge;
+  out.input.Te_eV = pt.t_e / c.units.energy_per_eV;
+  out.input.Ti_eV = pt.t_i / c.units.energy_per_eV;
+  if (args.has("lnlambda")) out.input.ln_lambda = args.real_value("lnlambda");
+  if (!(out.input.B > 0))
+    throw InputError(rf.source_name() + ": the plasma has no magnetic field; derived parameters need B > 0");
+  validate_plasma_input(out.input);
   return out;
 }
 
@@ -220,7 +262,9 @@ std::string format_json(const LabelledInput& li, const PlasmaParameters& p) {
 int cmd_plasma(std::span<const std::string> argv) {
   ArgParser args = make_parser();
   if (!args.parse(argv)) return exit_code::ok;
-  const LabelledInput li = input_from_flags(args);
+  if (args.has("at") && !args.has("RUN.yaml"))
+    throw InputError("option --at needs a run file; " + args.help_hint());
+  const LabelledInput li = args.has("RUN.yaml") ? input_from_run_file(args) : input_from_flags(args);
   const PlasmaParameters p = derive_plasma_parameters(li.input);
   std::cout << (args.has("json") ? format_json(li, p) : format_table(li, p));
   return exit_code::ok;

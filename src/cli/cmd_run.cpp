@@ -55,7 +55,7 @@ int cmd_run(std::span<const std::string> args) {
   a.positional("FILE.yaml", "the run file");
   a.option("output", "OUT.h5", "output file (default: output.file, or the run file's name with .h5)");
   a.short_alias('o', "output");
-  a.option("set", "KEY=VALUE", "override one run-file key, e.g. --set time.end=1e-5 (repeatable)", true);
+  a.option("set", "KEY=VALUE", "override one run-file key, e.g. --set time.end=1e-5", true);
   a.option("threads", "N", "OpenMP threads (default: OMP_NUM_THREADS or all cores)");
   a.flag("quiet", "no progress output");
   if (!a.parse(args)) return 0;
@@ -105,7 +105,7 @@ int cmd_check(std::span<const std::string> args) {
               "constraint that limits it, the number of steps and the memory and output "
               "size estimates.");
   a.positional("FILE.yaml", "the run file");
-  a.option("set", "KEY=VALUE", "override one run-file key (repeatable)", true);
+  a.option("set", "KEY=VALUE", "override one run-file key", true);
   a.option("output", "OUT.h5", "output file to report");
   a.short_alias('o', "output");
   if (!a.parse(args)) return 0;

@@ -204,7 +204,7 @@ CaseSetup read_case(const io::RunFile& rf, const std::string& output_override) {
       std::ostringstream msg;
       msg << "probe " << k << " at x = " << o.probes[k] << " m is outside the tube ["
           << c.grid.x_min << ", " << c.grid.x_max() << "] m";
-      rf.fail("output.probes", msg.str());
+      rf.fail("output.probes[" + std::to_string(k) + "]", msg.str());
     }
   }
   return c;

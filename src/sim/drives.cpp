@@ -99,7 +99,7 @@ void declare_drive_common(io::Section& s, bool in_domain) {
                            "circular polarization), relative to the run file's folder");
   s.real("delay", "s", where + ": the waveform starts this long after t = 0").non_negative().def(0.0);
   s.real("phase_deg", "deg", where + ": carrier phase (sin(w t + phase))").def(0.0);
-  s.choice("polarization", {"linear", "left", "right", "y", "z"},
+  s.choice("polarization", {"y", "z", "left", "right", "linear"},
            where + ": linear at angle_deg from y toward z, circular left- or right-handed about +x, "
                    "or linear along y or z")
       .def("linear");
@@ -112,18 +112,19 @@ std::string fmt(real v) {
   return o.str();
 }
 
-Waveform read_waveform(const io::RunFile& rf, const std::string& key, const std::string& kind) {
+Waveform read_waveform(const io::RunFile& rf, const std::string& key, const std::string& kind,
+                       const std::string& who) {
   auto k = [&](const char* n) { return key + "." + n; };
   auto get = [&](const char* n) { return rf.get_real(k(n)); };
   const real phase = get("phase_deg") * constants::pi / 180;
   if (kind == "continuous") {
     const real f = get("frequency");
-    if (f <= 0) rf.fail(k("frequency"), "a continuous waveform needs a frequency > 0");
+    if (f <= 0) rf.fail(k("frequency"), who + " needs a drive frequency > 0");
     return Waveform::continuous(f, get("ramp_periods") / f, phase);
   }
   if (kind == "tone-burst") {
     const real f = get("frequency");
-    if (f <= 0) rf.fail(k("frequency"), "a tone burst needs a frequency > 0");
+    if (f <= 0) rf.fail(k("frequency"), who + " needs a drive frequency > 0 (tone burst)");
     const bool tukey = rf.get_string(k("window")) == "tukey";
     if (!tukey && rf.given(k("taper"))) rf.fail(k("taper"), "only the tukey window takes a taper");
     const real taper = rf.has(k("taper")) ? get("taper") : 0.5;
@@ -226,11 +227,11 @@ DriveSpec read_drive(const io::RunFile& rf, const std::string& key, bool in_doma
     if (!amp.empty()) rf.fail(k(a), "give one amplitude only ('" + amp + "' is given too)");
     amp = a;
   }
-  if (amp.empty()) {
-    std::string list;
-    for (const auto& a : amplitude_keys(in_domain)) list += (list.empty() ? "" : ", ") + a;
-    rf.fail(key, "a drive needs its amplitude, one of: " + list);
-  }
+  const std::string who = in_domain ? "an antenna" : "a driven end";
+  if (amp.empty())
+    rf.fail(key, who + (in_domain ? " needs velocity_amplitude, field_amplitude, current_density or sheet_current"
+                                  : " needs velocity_amplitude or field_amplitude") +
+                     " (one amplitude, which also says what is driven)");
   if (amp == "velocity_amplitude") d.quantity = DriveQuantity::velocity;
   if (amp == "field_amplitude") d.quantity = DriveQuantity::field;
   if (amp == "current_density" || amp == "sheet_current") d.quantity = DriveQuantity::current;
@@ -243,9 +244,13 @@ DriveSpec read_drive(const io::RunFile& rf, const std::string& key, bool in_doma
     for (const auto& n : keys)
       if (rf.given(k(n)) && std::find(allowed.begin(), allowed.end(), n) == allowed.end())
         rf.fail(k(n), "the " + kind + " waveform does not take '" + n + "'");
-  for (const auto& n : waveform_required().at(kind))
-    if (!rf.given(k(n))) rf.fail(key, "the " + kind + " waveform needs '" + n + "'");
-  d.signal.waveform = read_waveform(rf, key, kind);
+  for (const auto& n : waveform_required().at(kind)) {
+    if (rf.given(k(n))) continue;
+    if (n == "frequency")  // at the drive's section: an absent key has no line of its own
+      rf.fail(key, who + " needs a drive frequency: give " + k(n) + " > 0 (" + kind + " waveform)");
+    rf.fail(key, "the " + kind + " waveform needs '" + n + "': give " + k(n));
+  }
+  d.signal.waveform = read_waveform(rf, key, kind, who);
   d.signal.waveform.delayed(rf.get_real(k("delay")));
 
   const std::string pol = rf.get_string(k("polarization"));

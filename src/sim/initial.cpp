@@ -1,6 +1,7 @@
 #include "sim/initial.hpp"
 
 #include <cmath>
+#include <sstream>
 
 namespace tw {
 
@@ -81,7 +82,11 @@ std::vector<PlasmaPoint> initial_plasma(const io::RunFile& rf, const CaseSetup& 
     return pts;
   }
   const real x0 = rf.has("initial.position") ? rf.get_real("initial.position") : g.x_min + 0.5 * g.length;
-  if (x0 <= g.x_min || x0 >= g.x_max()) rf.fail("initial.position", "must lie inside the tube");
+  if (x0 <= g.x_min || x0 >= g.x_max()) {
+    std::ostringstream msg;
+    msg << "must lie inside the tube (" << g.x_min << ", " << g.x_max() << ") m (got " << x0 << ")";
+    rf.fail("initial.position", msg.str());
+  }
   for (int i = 0; i < g.n_cells; ++i) {
     const bool left = g.x_centre(i) < x0;
     auto& p = pts[static_cast<std::size_t>(i)];

@@ -38,9 +38,12 @@ void read_mhd_fluid(const io::RunFile& rf, const CaseSetup& c, Mhd& m) {
     // a^2 = p / rho = (n_i T_i + n_e T_e) / (n_i m) = (T_i + Z T_e) / m at the reference point.
     const PlasmaPoint p = c.plasma.at(c.grid.x_min, c.units);
     const real a2 = (p.t_i + c.plasma.charge * p.t_e) / m.particle_mass;
-    if (a2 <= 0)
-      rf.fail("plasma.electron_temperature",
-              "the isothermal closure needs a temperature: T_e or T_i must be > 0");
+    if (a2 <= 0)  // at the temperature given as 0, else at the closure that needs one
+      rf.fail(rf.given("plasma.electron_temperature") ? "plasma.electron_temperature"
+              : rf.given("plasma.ion_temperature")    ? "plasma.ion_temperature"
+                                                      : "model.closure",
+              "the isothermal closure needs a temperature: plasma.electron_temperature or "
+              "plasma.ion_temperature must be > 0 (both default to 0)");
     m.sound_speed_iso = std::sqrt(a2);
   }
   m.resistivity = rf.get_real("model.resistivity");
@@ -102,14 +105,43 @@ ModeSet primitive_modes_mhd(const Mhd& m, const Mhd::State& W) {
   return modes;
 }
 
+namespace {
+
+/// The adiabatic closure needs p > 0 in every cell. A cold plasma (both temperatures default
+/// to 0) is the usual cause; name the keys that set the pressure there, rather than leaving
+/// it to the generic "not physical" check.
+void require_pressure(const io::RunFile& rf, const CaseSetup& c, const Field<Mhd::State>& W) {
+  const Grid& g = c.grid;
+  for (int i = 0; i < g.n_cells; ++i) {
+    if (W[i][Mhd::P] > 0) continue;
+    std::ostringstream msg;
+    msg << "the adiabatic closure needs a pressure > 0, but it is " << W[i][Mhd::P] << " at x = "
+        << g.x_centre(i) << " m (cell " << i << "): ";
+    if (rf.get_string("initial.kind") == "riemann") {
+      const real x0 = rf.has("initial.position") ? rf.get_real("initial.position") : g.x_min + 0.5 * g.length;
+      const std::string side = g.x_centre(i) < x0 ? "initial.left" : "initial.right";
+      rf.fail(side, msg.str() + "give " + side + ".pressure or a temperature, or a background "
+                                "temperature (plasma.electron_temperature, plasma.ion_temperature)");
+    }
+    rf.fail(rf.given("plasma.electron_temperature") ? "plasma.electron_temperature"
+            : rf.given("plasma.ion_temperature")    ? "plasma.ion_temperature"
+                                                    : "plasma",
+            msg.str() + "plasma.electron_temperature or plasma.ion_temperature must be > 0 "
+                        "(both default to 0)");
+  }
+}
+
+}  // namespace
+
 bool ModelSetup<Mhd>::perturb(const Mhd& m, const io::RunFile& rf, const CaseSetup& c, Field<State>& W) {
   const std::string kind = rf.get_string("initial.kind");
   if (kind != "wave") {
     for (const char* k : {"mode", "direction", "amplitude", "wavelength"})
       if (rf.given(std::string("initial.") + k))
         rf.fail(std::string("initial.") + k, "only the wave kind takes '" + std::string(k) + "'");
-    return kind == "uniform" || kind == "riemann";
   }
+  if (m.closure == Closure::adiabatic) require_pressure(rf, c, W);
+  if (kind != "wave") return kind == "uniform" || kind == "riemann";
   const Grid& g = c.grid;
   if (!c.plasma.n_e.uniform || !c.plasma.t_e_eV.uniform || !c.plasma.t_i_eV.uniform)
     rf.fail("initial.kind", "the wave initial state needs a uniform background, but the plasma "
@@ -129,7 +161,10 @@ bool ModelSetup<Mhd>::perturb(const Mhd& m, const io::RunFile& rf, const CaseSet
   if (mode == "alfven") {
     // Analytic: the Alfvén wave moves v and B along the direction normal to both x and B0
     // in the y-z plane; dv = -+ sign(Bx) dB / sqrt(mu0 rho) for a forward (backward) wave.
-    if (m.bx == 0) rf.fail("initial.mode", "no Alfvén wave travels along x when B_x = 0");
+    if (m.bx == 0)
+      rf.fail(rf.given("initial.mode") ? "initial.mode" : "initial.kind",
+              "no Alfvén wave travels along x when B_x = 0 (plasma.field = 0, or "
+              "plasma.field_angle_deg = 90 or -90)");
     const real bt = std::hypot(W0[Mhd::BY], W0[Mhd::BZ]);
     const real ey = bt > 0 ? -W0[Mhd::BZ] / bt : 1.0, ez = bt > 0 ? W0[Mhd::BY] / bt : 0.0;
     const real sgn = m.bx > 0 ? 1.0 : -1.0;

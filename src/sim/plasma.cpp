@@ -17,8 +17,8 @@ Vec<3> PlasmaSpec::b0() const {
   const real a = field_angle_deg * constants::pi / 180;
   Vec<3> b{field * std::cos(a), 0.0, field * std::sin(a)};
   // Exact zeros for the usual angles, so that "parallel" means B_z == 0 exactly.
-  if (field_angle_deg == 0) b[2] = 0;
-  if (field_angle_deg == 90) b[0] = 0;
+  if (field_angle_deg == 0 || std::abs(field_angle_deg) == 180) b[2] = 0;
+  if (std::abs(field_angle_deg) == 90) b[0] = 0;
   return b;
 }
 

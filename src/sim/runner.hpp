@@ -14,6 +14,7 @@
 #include "core/plasma_params.hpp"
 #include "drive/boundary.hpp"
 #include "io/output.hpp"
+#include "io/xdmf.hpp"
 #include "sim/case.hpp"
 #include "sim/drive_setup.hpp"
 #include "sim/initial.hpp"
@@ -254,6 +255,7 @@ class CaseRunner {
     sum.notes = waves_->finish(out, t);
     const double wall = std::chrono::duration<double>(clock::now() - t0).count();
     out.close_as(outcome, message, step, t, wall);
+    io::write_xdmf_sidecar(c_.output.file);  // RUN.xmf: the snapshots for XDMF viewers
     report(true);
     sum.outcome = outcome;
     sum.message = message;

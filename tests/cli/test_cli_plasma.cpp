@@ -221,7 +221,9 @@ TEST_CASE("cli: plasma rejects bad flags with exit code 2", "[unit][cli]") {
       {"plasma --n 1e19 --B 1 --ion H --bogus", "unknown option '--bogus'"},
       {"plasma --n 1e19 --B 1 --ion H --jsn", "unknown option '--jsn' (did you mean '--json'?)"},
       {"plasma --n 1e19 --B 1 --ion H --json=yes", "option --json takes no value"},
-      {"plasma --n 1e19 --B 1 --ion H extra", "unexpected argument 'extra'"},
+      {"plasma run.yaml extra", "unexpected argument 'extra'"},
+      {"plasma --n 1e19 --B 1 --ion H run.yaml", "give either a run file or the plasma flags, not both"},
+      {"plasma --n 1e19 --B 1 --ion H --at 3", "option --at needs a run file"},
   };
   for (const auto& c : cases) {
     INFO(c.args);
@@ -234,4 +236,24 @@ TEST_CASE("cli: plasma rejects bad flags with exit code 2", "[unit][cli]") {
   // An error prints nothing on stdout besides the message (no half-written table).
   const auto r = run_tubewave("plasma --n 1e19 --B 1 --ion H --Te -5 2>/dev/null | cat");
   CHECK(r.output.empty());
+}
+
+TEST_CASE("plasma: a run file gives the same parameters as the equivalent flags", "[unit][cli]") {
+  // The demo column's plasma at its left end (He, n_e = 4e18 m^-3, B = 0.15 T, T_e = 6 eV,
+  // T_i = 1 eV, from its profile table) must give exactly the output of the same values
+  // as flags.
+  const std::string cfg = tw::test::source_path("configs/demo_column.yaml").string();
+  const auto from_file = tw::test::run_tubewave("plasma '" + cfg + "' --json");
+  const auto from_flags = tw::test::run_tubewave("plasma --n 4e18 --B 0.15 --ion He --Te 6 --Ti 1 --json");
+  REQUIRE(from_file.exit_code == 0);
+  REQUIRE(from_flags.exit_code == 0);
+  CHECK(from_file.output == from_flags.output);
+  // Flags and a run file together are ambiguous: exit 2 naming the flag.
+  const auto both = tw::test::run_tubewave("plasma '" + cfg + "' --n 1e18");
+  CHECK(both.exit_code == 2);
+  CHECK(both.output.find("--n") != std::string::npos);
+  // A position outside the tube is bad input.
+  const auto outside = tw::test::run_tubewave("plasma '" + cfg + "' --at 99");
+  CHECK(outside.exit_code == 2);
+  CHECK(outside.output.find("--at") != std::string::npos);
 }

@@ -166,10 +166,13 @@ TEST_CASE("drive keys: errors name the key, tables name file and row", "[unit][w
     return std::string();
   };
   CHECK_THAT(err("{kind: driven, frequency: 1.0e5}"),
-             Contains("boundaries.left") && Contains("needs its amplitude, one of: velocity_amplitude, field_amplitude"));
+             Contains("boundaries.left") && Contains("a driven end needs velocity_amplitude or field_amplitude"));
   CHECK_THAT(err("{kind: driven, velocity_amplitude: 1, field_amplitude: 1.0e-3, frequency: 1.0e5}"),
              Contains("give one amplitude only"));
-  CHECK_THAT(err("{kind: driven, velocity_amplitude: 1}"), Contains("the continuous waveform needs 'frequency'"));
+  CHECK_THAT(err("{kind: driven, velocity_amplitude: 1}"),
+             Contains("a driven end needs a drive frequency: give boundaries.left.frequency > 0"));
+  CHECK_THAT(err("{kind: driven, velocity_amplitude: 1, waveform: tone-burst, frequency: 1.0e5}"),
+             Contains("the tone-burst waveform needs 'cycles'"));
   CHECK_THAT(err("{kind: driven, velocity_amplitude: 1, frequency: 1.0e5, cycles: 3}"),
              Contains("boundaries.left.cycles") && Contains("the continuous waveform does not take 'cycles'"));
   CHECK_THAT(err("{kind: driven, velocity_amplitude: 1, waveform: tone-burst, frequency: 1.0e5, cycles: 3, taper: 0.3}"),
