@@ -127,10 +127,11 @@ void make_antenna(const io::RunFile& rf, const CaseSetup& c, const M& m, const F
     }
     real nu = a.relaxation_rate;
     if (q != DriveQuantity::current && nu <= 0) {
-      // Default: 20 v / W, with v the fastest signal speed at the antenna and W the
-      // integral of its shape, so the plasma follows the drive to about 10% (see antenna.hpp).
+      // Default: 10 v / W, with v the fastest signal speed at the antenna and W the
+      // integral of its shape: a plasma whose fastest wave is the Alfven wave follows the
+      // drive to v_d / 1.2 (see antenna.hpp), at a step limit of W / (40 v).
       const int ic = std::clamp(static_cast<int>((a.shape.centre - c.grid.x_min) / c.grid.dx()), 0, c.grid.n_cells - 1);
-      nu = 20 * m.signal_speeds(W0[ic]).abs_max() / cells.integral(c.grid.dx());
+      nu = 10 * m.signal_speeds(W0[ic]).abs_max() / cells.integral(c.grid.dx());
     }
     const auto b0 = c.plasma.b0();
     info.source = static_cast<int>(out.sources.size());

@@ -203,7 +203,7 @@ void declare_drive_keys(io::Schema& schema) {
   ant.real("edge", "m", "top-hat: width of each smooth (cos^2) edge (default width/10)").non_negative();
   ant.real("relaxation_rate", "1/s",
            "velocity and field antennas: rate at which the plasma is pulled to the prescribed value "
-           "(default 20 v / W: v the fastest wave speed there, W the integral of the shape)")
+           "(default 10 v / W: v the fastest wave speed there, W the integral of the shape)")
       .positive();
   declare_drive_common(ant, true);
 
