@@ -65,14 +65,14 @@ ElsasserSample elsasser(const M& m, const typename M::State& W, const Transverse
   return e;
 }
 
-/// Energy parts integrated along the tube [J/m^2], summed serially in cell order
-/// (reproducible for any thread count).
+/// Energy parts integrated along the tube [J/m^2] from the primitive field W, summed
+/// serially in cell order (reproducible for any thread count).
 template <class M>
   requires HasEnergyDensity<M>
-EnergyParts integrate_energy(const M& m, const Field<typename M::State>& U, const Grid& g) {
+EnergyParts integrate_energy(const M& m, const Field<typename M::State>& W, const Grid& g) {
   EnergyParts t;
   for (int i = 0; i < g.n_cells; ++i) {
-    const EnergyParts e = m.energy_density(m.prim_from_cons(U[i]));
+    const EnergyParts e = m.energy_density(W[i]);
     t.kinetic += e.kinetic;
     t.thermal += e.thermal;
     t.magnetic += e.magnetic;

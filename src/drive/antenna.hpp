@@ -76,6 +76,9 @@ struct AntennaShape {
 struct AntennaCells {
   int first = 0;              ///< first cell
   std::vector<real> weight;   ///< w(x_i) for cells first, first + 1, ...
+  /// w at the faces of those cells (weight.size() + 1 values), zero at the two outer
+  /// faces so that fluxes of the antenna stay inside it.
+  std::vector<real> face_weight;
   /// Sum of w dx over the cells [m] (the sheet current per unit J0).
   [[nodiscard]] real integral(real dx) const {
     real s = 0;
@@ -96,6 +99,8 @@ struct AntennaCells {
     if (hi < lo) return c;
     c.first = lo;
     c.weight.assign(w.begin() + lo, w.begin() + hi + 1);
+    c.face_weight.assign(c.weight.size() + 1, 0.0);
+    for (std::size_t k = 1; k < c.weight.size(); ++k) c.face_weight[k] = shape(g.x_face(lo + static_cast<int>(k)));
     return c;
   }
 };
@@ -114,11 +119,11 @@ class AntennaSource final : public SourceTerm<M> {
       : name_(std::move(name)), q_(q), drive_(std::move(drive)), cells_(std::move(cells)),
         nu_(relaxation_rate), b0_(b0) {}
 
-  void add(const M& m, const Grid&, real t, const Field<State>& W, Field<State>& dUdt) const override {
+  void add(const M& m, const Grid& g, real t, const Field<State>& W, Field<State>& dUdt) const override {
     const auto d = drive_.at(t);
     for (std::size_t k = 0; k < cells_.weight.size(); ++k) {
       const int i = cells_.first + static_cast<int>(k);
-      const State S = source(m, W[i], cells_.weight[k], d);
+      const State S = source(m, g, W, k, d);
       for (int j = 0; j < N; ++j) dUdt[i][j] += S[j];
     }
   }
@@ -128,7 +133,7 @@ class AntennaSource final : public SourceTerm<M> {
     real p = 0;
     for (std::size_t k = 0; k < cells_.weight.size(); ++k) {
       const int i = cells_.first + static_cast<int>(k);
-      p += energy_rate(m, m.cons_from_prim(W[i]), source(m, W[i], cells_.weight[k], d));
+      p += energy_rate(m, m.cons_from_prim(W[i]), source(m, g, W, k, d));
     }
     return p * g.dx();
   }
@@ -152,10 +157,33 @@ class AntennaSource final : public SourceTerm<M> {
   [[nodiscard]] const AntennaCells& cells() const { return cells_; }
 
  private:
-  State source(const M& m, const State& W, real w, const std::array<real, 2>& d) const {
+  /// The source in the k-th cell of the antenna.
+  State source(const M& m, const Grid& g, const Field<State>& Wf, std::size_t k, const std::array<real, 2>& d) const {
+    const int i = cells_.first + static_cast<int>(k);
+    const State& W = Wf[i];
+    const real w = cells_.weight[k];
     if (q_ == DriveQuantity::current) {
-      if constexpr (HasExternalCurrent<M>) return m.external_current_source(W, w * d[0], w * d[1]);
-      return State{};
+      State S{};
+      if constexpr (HasExternalCurrent<M>) S = m.external_current_source(W, w * d[0], w * d[1]);
+      if constexpr (HasExternalCurrentField<M> && HasTransverseField<M>) {
+        // The field the model's Ohm's law misses (Hall): the divergence of the face fluxes,
+        // applied to the transverse field with everything else held (its magnetic energy).
+        const real wl = cells_.face_weight[k], wr = cells_.face_weight[k + 1];
+        const auto gl = m.external_current_field_flux(Wf[i - 1], W, wl * d[0], wl * d[1]);
+        const auto gr = m.external_current_field_flux(W, Wf[i + 1], wr * d[0], wr * d[1]);
+        const real dby = -(gr[0] - gl[0]) / g.dx(), dbz = -(gr[1] - gl[1]) / g.dx();
+        // dU along the primitive change (0, .., dB, ..): a central difference, exact for a
+        // conservative map quadratic in B.
+        State Wp = W, Wm = W;
+        const auto b = m.transverse_field(W);
+        m.set_transverse_field(Wp, b[0] + dby, b[1] + dbz);
+        m.set_transverse_field(Wm, b[0] - dby, b[1] - dbz);
+        const State Up = m.cons_from_prim(Wp), Um = m.cons_from_prim(Wm);
+        for (int j = 0; j < N; ++j) S[j] += 0.5 * (Up[j] - Um[j]);
+      } else {
+        (void)g;
+      }
+      return S;
     }
     State Wd = W;
     if (q_ == DriveQuantity::velocity) {

@@ -49,6 +49,12 @@
 ///        [A/m^2] flowing in conductors inside the cell: in MHD the force -J_ext x B on the
 ///        plasma and its work; in a model that evolves E, the -J_ext/eps0 term of Ampere's
 ///        law. The power the antenna delivers, -E.J_ext, follows from energy_density.
+///   std::array<real,2> external_current_field_flux(const State& Wl, const State& Wr,
+///                                                  real jy, real jz) const;
+///        for models whose Ohm's law uses the plasma current but whose field law is built
+///        from curl(B) (Hall MHD): the transverse-field fluxes (G_By, G_Bz) [T m/s] at a face
+///        where the antenna current is (jy, jz), restoring the field of the plasma current
+///        (dB/dt + dG/dx = 0). Antennas apply it with its magnetic energy.
 ///   std::array<real,2> transverse_velocity(const State& W) const;
 ///   void set_transverse_velocity(State& W, real vy, real vz) const;
 ///        the (centre-of-mass) transverse flow of a primitive state; lets drives move it
@@ -63,15 +69,38 @@
 ///   State conserved_scale(const State& U) const;
 ///        typical size of each conservative variable at U (step sizes of numerical
 ///        Jacobians, e.g. for characteristic open ends); the fallback uses |U_k|
+///
+/// Optional whole-grid members (they need neighbouring cells and the ends; `fill` is a
+/// GhostFill that sets the ghost cells of a primitive field as the run's two ends do):
+///   bool grid_coupled() const;
+///   void recover_primitives(const Grid& g, const Field<State>& U, Field<State>& W,
+///                           const GhostFill<State>& fill, real t) const;
+///   void complete_conservatives(const Grid& g, Field<State>& W, Field<State>& U,
+///                               const GhostFill<State>& fill, real t) const;
+///        for models whose conservative variables are not a function of one cell's
+///        primitives (electron inertia evolves B - d_e^2 d2B/dx2): the generic code first
+///        converts cell by cell, then, when grid_coupled() is true, calls these to finish
+///        the conversion over the whole grid (every stage, before any output, and for the
+///        initial state). Detected by HasGridRecovery.
+///   bool split_step_active() const;
+///   std::array<State, 2> split_step(const Grid& g, Field<State>& U, real t, real dt,
+///                                   const GhostFill<State>& fill) const;
+///        a whole-grid update applied by Strang splitting around the Runge-Kutta stages
+///        (half a step before, half after), e.g. an implicit or sub-cycled stiff term
+///        such as the Hall electric field. It returns the time-integrated fluxes through
+///        face 0 and face n (for budgets), and must leave U admissible. Skipped while
+///        split_step_active() is false. Detected by HasSplitStep (below); run by the Stepper.
 #include <algorithm>
 #include <array>
 #include <cmath>
 #include <concepts>
+#include <functional>
 #include <limits>
 #include <string>
 #include <vector>
 
 #include "core/types.hpp"
+#include "grid/grid.hpp"
 
 namespace tw {
 
@@ -201,6 +230,43 @@ concept HasEnergyDensity = requires(const M m, const typename M::State& s) {
   { m.energy_density(s) } -> std::same_as<EnergyParts>;
 };
 
+/// Sets the ghost cells of a primitive field at time t from its interior, as the two ends
+/// of the run do (both boundary objects); handed to a model's whole-grid members.
+template <class State>
+using GhostFill = std::function<void(Field<State>& W, real t)>;
+
+template <class M>
+concept HasGridRecovery = requires(const M m, const Grid& g, const Field<typename M::State>& Uc,
+                                   Field<typename M::State>& W, Field<typename M::State>& U,
+                                   const GhostFill<typename M::State>& fill, real t) {
+  { m.grid_coupled() } -> std::same_as<bool>;
+  { m.recover_primitives(g, Uc, W, fill, t) };
+  { m.complete_conservatives(g, W, U, fill, t) };
+};
+
+template <class M>
+concept HasSplitStep = requires(const M m, const Grid& g, Field<typename M::State>& U, real t, real dt,
+                                const GhostFill<typename M::State>& fill) {
+  { m.split_step_active() } -> std::same_as<bool>;
+  { m.split_step(g, U, t, dt, fill) } -> std::same_as<std::array<typename M::State, 2>>;
+};
+
+/// True when the model's whole-grid conversion must run (false for models without it).
+template <class M>
+bool grid_coupled(const M& m) {
+  if constexpr (HasGridRecovery<M>) return m.grid_coupled();
+  (void)m;
+  return false;
+}
+
+/// True when the model's split step must run.
+template <class M>
+bool split_step_active(const M& m) {
+  if constexpr (HasSplitStep<M>) return m.split_step_active();
+  (void)m;
+  return false;
+}
+
 template <class M>
 concept HasEnergyFlux = requires(const M m, const typename M::State& s) {
   { m.energy_flux(s, s) } -> std::same_as<real>;
@@ -214,6 +280,11 @@ concept HasDissipation = requires(const M m, const typename M::State& s, real dx
 template <class M>
 concept HasExternalCurrent = requires(const M m, const typename M::State& s, real j) {
   { m.external_current_source(s, j, j) } -> std::same_as<typename M::State>;
+};
+
+template <class M>
+concept HasExternalCurrentField = requires(const M m, const typename M::State& s, real j) {
+  { m.external_current_field_flux(s, s, j, j) } -> std::same_as<std::array<real, 2>>;
 };
 
 template <class M>

@@ -2,6 +2,7 @@
 
 #include "sim/case.hpp"
 #include "sim/drives.hpp"
+#include "sim/hall_setup.hpp"
 #include "sim/initial.hpp"
 #include "sim/mhd_setup.hpp"
 #include "sim/runner.hpp"
@@ -13,7 +14,7 @@ namespace {
 /// The model catalogue: the `model.equations` and `model.form` choices. A new model adds
 /// its name here, its keys in build_schema() and a branch in dispatch().
 const std::vector<std::string>& equation_names() {
-  static const std::vector<std::string> n{"mhd"};
+  static const std::vector<std::string> n{"mhd", "hall"};
   return n;
 }
 const std::vector<std::string>& form_names() {
@@ -24,13 +25,14 @@ const std::vector<std::string>& form_names() {
 io::Schema build_schema() {
   io::Schema s;
   io::Section& model = s.root().section("model", "which equations are solved");
-  model.choice("equations", equation_names(), "the model: ideal/resistive MHD").def("mhd");
+  model.choice("equations", equation_names(), "the model: ideal/resistive MHD (mhd) or Hall MHD (hall)").def("mhd");
   model.choice("form", form_names(), "full nonlinear equations").def("nonlinear");
   declare_case_keys(s);
   declare_drive_keys(s);
   std::vector<std::string> kinds = mhd_initial_kinds();
   declare_initial_keys(s, kinds);
   declare_mhd_keys(s);
+  declare_hall_keys(s);
   return s;
 }
 
@@ -38,8 +40,15 @@ template <class F>
 auto dispatch(const io::RunFile& rf, CaseSetup c, F&& f) {
   c.equations = rf.get_string("model.equations");
   c.form = rf.get_string("model.form");
+  if (c.equations != "hall")
+    for (const auto& k : hall_only_keys())
+      if (rf.given("model." + k)) rf.fail("model." + k, "only the hall model takes '" + k + "'");
   if (c.equations == "mhd") {
     CaseRunner<Mhd> runner(rf, std::move(c));
+    return f(runner);
+  }
+  if (c.equations == "hall") {
+    CaseRunner<HallMhd> runner(rf, std::move(c));
     return f(runner);
   }
   rf.fail("model.equations", "model '" + c.equations + "' is not built into this tubewave");

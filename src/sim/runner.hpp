@@ -71,7 +71,6 @@ class CaseRunner {
             << " m (cell " << i << "): check densities, pressures and temperatures";
         rf.fail("initial", msg.str());
       }
-      U_[i] = model_.cons_from_prim(W[i]);
     }
     scheme_ = c_.scheme;
     scheme_.flux = ModelSetup<M>::flux(rf, model_);
@@ -81,6 +80,9 @@ class CaseRunner {
     for (auto& s : drives.sources) op.add_source(s);
     stepper_.emplace(std::move(op), c_.time);
     waves_.emplace(rf, c_, std::move(drives.drives), std::move(drives.layer_sources));
+    // Conservative variables (over the whole grid, with the ends, for models that need it).
+    stepper_->op().conservatives(model_, 0, W, U_);
+    prim_ = Field<State>(g);
     // Probe interpolation: between the two cell centres around each probe.
     for (real x : c_.output.probes) {
       real s = (x - g.x_min) / g.dx() - 0.5;
@@ -127,6 +129,8 @@ class CaseRunner {
       r.warnings.push_back("weno5 is fifth order in space; ssp-rk3 keeps its time error comparable");
     if (scheme_.reconstruction == Reconstruction::plm && scheme_.limiter == Limiter::none)
       r.warnings.push_back("unlimited slopes oscillate at discontinuities; use them for smooth waves only");
+    if constexpr (HasCheckWarnings<M>)
+      for (auto& w : ModelSetup<M>::check_warnings(model_, c_)) r.warnings.push_back(std::move(w));
     return r;
   }
 
@@ -167,9 +171,10 @@ class CaseRunner {
       const bool r = regions && region_c.due(t);
       if (!(s || p || h || r)) return;
       stepper_->validate(model_, U_, t);
+      stepper_->op().primitives(model_, t, U_, prim_);
       if (s && t != t_snap_last) {
         append_snapshot(snaps, t, step);
-        waves_->snapshot(t, step, model_, U_);
+        waves_->snapshot(t, step, model_, prim_);
         t_snap_last = t;
         ++sum.snapshots;
       }
@@ -179,9 +184,9 @@ class CaseRunner {
       }
       if (h) {
         append_history(history, t, step);
-        waves_->history(t, step, model_, U_, *stepper_);
+        waves_->history(t, step, model_, prim_, *stepper_);
       }
-      if (r) waves_->region_sample(t, step, model_, U_);
+      if (r) waves_->region_sample(t, step, model_, prim_);
     };
     Progress prog;
     prog.t_end = c_.t_end;
@@ -235,9 +240,10 @@ class CaseRunner {
       }
       if (outcome != "failed") {
         stepper_->validate(model_, U_, t);
+        stepper_->op().primitives(model_, t, U_, prim_);
         if (t != t_snap_last) {
           append_snapshot(snaps, t, step);
-          waves_->snapshot(t, step, model_, U_);
+          waves_->snapshot(t, step, model_, prim_);
           t_snap_last = t;
           ++sum.snapshots;
         }
@@ -246,9 +252,10 @@ class CaseRunner {
       outcome = "failed";
       message = e.what();
       t = e.t_good();
+      stepper_->op().primitives(model_, t, U_, prim_);
       if (t != t_snap_last) {  // the last good state, unless it is already the last snapshot
         append_snapshot(snaps, t, step);
-        waves_->snapshot(t, step, model_, U_);
+        waves_->snapshot(t, step, model_, prim_);
         ++sum.snapshots;
       }
     }
@@ -312,7 +319,7 @@ class CaseRunner {
     buf_.assign(nout * static_cast<std::size_t>(n), 0);
     std::vector<real> o(nout);
     for (int i = 0; i < n; ++i) {
-      model_.to_output(model_.prim_from_cons(U_[i]), o.data());
+      model_.to_output(prim_[i], o.data());
       for (std::size_t k = 0; k < nout; ++k) buf_[k * static_cast<std::size_t>(n) + static_cast<std::size_t>(i)] = o[k];
     }
     s.append(t, step, buf_);
@@ -327,8 +334,8 @@ class CaseRunner {
     for (std::size_t p = 0; p < np; ++p) {
       const int i0 = probe_cell_[p];
       const real w = probe_weight_[p];
-      model_.to_output(model_.prim_from_cons(U_[i0]), a.data());
-      model_.to_output(model_.prim_from_cons(U_[std::min(i0 + 1, n - 1)]), b.data());
+      model_.to_output(prim_[i0], a.data());
+      model_.to_output(prim_[std::min(i0 + 1, n - 1)], b.data());
       for (std::size_t k = 0; k < nout; ++k) buf_[k * np + p] = (1 - w) * a[k] + w * b[k];
     }
     s.append(t, step, buf_);
@@ -352,6 +359,7 @@ class CaseRunner {
   CaseSetup c_;
   M model_;
   Field<State> U_;
+  Field<State> prim_;  ///< primitives of U_ at the time of the latest output
   SpatialScheme scheme_;
   std::optional<Stepper<M>> stepper_;
   std::optional<WaveOutput<M>> waves_;  ///< budgets, antenna power, Elsasser parts, regions

@@ -120,11 +120,12 @@ class WaveOutput {
     for (std::size_t j = 0; j < drives_.size(); ++j) records_[j].add(t, work(j, st));
   }
 
-  /// A history row: budget and antenna power.
-  void history(real t, long step, const M& m, const Field<State>& U, const Stepper<M>& st) {
+  /// A history row: budget and antenna power. `W`: the primitive field at t (as the run
+  /// loop recovers it for output, whole-grid where the model needs that).
+  void history(real t, long step, const M& m, const Field<State>& W, const Stepper<M>& st) {
     const real dt = t - t_hist_;
     if constexpr (HasEnergyDensity<M>) {
-      const EnergyParts ep = integrate_energy(m, U, c_.grid);
+      const EnergyParts ep = integrate_energy(m, W, c_.grid);
       const real total = ep.total();
       if (!have_total0_) {
         total0_ = total;
@@ -169,14 +170,14 @@ class WaveOutput {
     t_hist_ = t;
   }
 
-  /// A snapshot: the Elsasser parts of every cell.
-  void snapshot(real t, long step, const M& m, const Field<State>& U) {
+  /// A snapshot: the Elsasser parts of every cell (W: primitives, as for history).
+  void snapshot(real t, long step, const M& m, const Field<State>& W) {
     if constexpr (HasAlfvenFields<M>) {
       if (!elsasser_series_) return;
       const int n = c_.grid.n_cells;
       buf_.assign(4 * static_cast<std::size_t>(n), 0.0);
       for (int i = 0; i < n; ++i) {
-        const ElsasserSample e = elsasser(m, m.prim_from_cons(U[i]), bg_);
+        const ElsasserSample e = elsasser(m, W[i], bg_);
         const auto I = static_cast<std::size_t>(i), N = static_cast<std::size_t>(n);
         buf_[I] = e.fy;
         buf_[N + I] = e.fz;
@@ -185,24 +186,24 @@ class WaveOutput {
       }
       elsasser_series_->append(t, step, buf_);
     } else {
-      (void)t, (void)step, (void)m, (void)U;
+      (void)t, (void)step, (void)m, (void)W;
     }
   }
 
-  /// A region sample (probe cadence).
-  void region_sample(real t, long step, const M& m, const Field<State>& U) {
+  /// A region sample (probe cadence; W: primitives).
+  void region_sample(real t, long step, const M& m, const Field<State>& W) {
     if constexpr (HasAlfvenFields<M>) {
       if (meters_.empty()) return;
       const std::size_t nr = meters_.size();
       std::vector<real> row(9 * nr);
       for (std::size_t r = 0; r < nr; ++r) {
-        meters_[r].sample(t, at(m, U, region_points_[r][0]), at(m, U, region_points_[r][1]));
+        meters_[r].sample(t, at(m, W, region_points_[r][0]), at(m, W, region_points_[r][1]));
         const auto l = meters_[r].latest();
         for (std::size_t k = 0; k < 9; ++k) row[k * nr + r] = l[k];
       }
       regions_series_->append(t, step, row);
     } else {
-      (void)t, (void)step, (void)m, (void)U;
+      (void)t, (void)step, (void)m, (void)W;
     }
   }
 
@@ -291,9 +292,9 @@ class WaveOutput {
     int i0 = std::clamp(static_cast<int>(std::floor(s)), 0, std::max(0, g.n_cells - 2));
     return {i0, g.n_cells > 1 ? std::clamp(s - i0, real(0), real(1)) : 0};
   }
-  ElsasserSample at(const M& m, const Field<State>& U, const Point& p) const {
-    const ElsasserSample a = elsasser(m, m.prim_from_cons(U[p.i0]), bg_);
-    const ElsasserSample b = elsasser(m, m.prim_from_cons(U[std::min(p.i0 + 1, c_.grid.n_cells - 1)]), bg_);
+  ElsasserSample at(const M& m, const Field<State>& W, const Point& p) const {
+    const ElsasserSample a = elsasser(m, W[p.i0], bg_);
+    const ElsasserSample b = elsasser(m, W[std::min(p.i0 + 1, c_.grid.n_cells - 1)], bg_);
     return ElsasserSample::mix(a, b, p.w);
   }
   real work(std::size_t j, const Stepper<M>& st) const {
