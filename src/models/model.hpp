@@ -69,6 +69,11 @@
 ///   State conserved_scale(const State& U) const;
 ///        typical size of each conservative variable at U (step sizes of numerical
 ///        Jacobians, e.g. for characteristic open ends); the fallback uses |U_k|
+///   static std::vector<VariableInfo> diagnostic_info();
+///   void diagnostics(const Grid& grid, const Field<State>& U, real* out) const;
+///        whole-tube numbers the runner writes to /history with every record, one column
+///        per diagnostic_info() entry (e.g. a constraint residual such as Gauss's law);
+///        reads the interior cells of the conservative state only, reduces in a fixed order
 ///
 /// Optional whole-grid members (they need neighbouring cells and the ends; `fill` is a
 /// GhostFill that sets the ghost cells of a primitive field as the run's two ends do):
@@ -343,6 +348,12 @@ real energy_rate(const M& m, const typename M::State& U, const typename M::State
     return (ep - em) / (2 * h);
   }
 }
+
+template <class M>
+concept HasDiagnostics = requires(const M m, const Grid& g, const Field<typename M::State>& U, real* out) {
+  { M::diagnostic_info() } -> std::same_as<std::vector<VariableInfo>>;
+  { m.diagnostics(g, U, out) };
+};
 
 template <class M>
 concept HasStepLimits = requires(const M m, const typename M::State& s, real dx, StepLimits& l) {

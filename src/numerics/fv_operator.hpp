@@ -238,6 +238,54 @@ class FvOperator {
     return rep;
   }
 
+  /// A cheaper pass than evaluate() for choosing the step: primitive variables and their
+  /// admissibility, ghost cells, the largest signal speed of the cell states (interior and
+  /// the first ghost layer, not of reconstructed face states) and, on request, the model's
+  /// step limits. No fluxes. Used by the stepper for models with a split stiff source,
+  /// whose operator must be evaluated again after the first half step anyway.
+  RhsReport<N> survey(const M& m, real t, const Field<State>& U, bool want_limits) {
+    RhsReport<N> rep;
+    const int n = grid_.n_cells;
+    const real dx = grid_.dx();
+    int bad = std::numeric_limits<int>::max();
+    real smax = 0;
+    std::vector<StepLimits> thread_limits;
+#pragma omp parallel if (run_parallel(n))
+    {
+#pragma omp for schedule(static) reduction(min : bad)
+      for (int i = 0; i < n; ++i) {
+        W_[i] = m.prim_from_cons(U[i]);
+        if (!m.admissible(W_[i])) bad = std::min(bad, i);
+      }
+#pragma omp single
+      {
+        left_->fill(m, grid_, Side::left, t, W_);
+        right_->fill(m, grid_, Side::right, t, W_);
+      }
+      if (bad == std::numeric_limits<int>::max()) {
+#pragma omp for schedule(static) reduction(max : smax)
+        for (int i = -1; i <= n; ++i) smax = std::max(smax, m.signal_speeds(W_[i]).abs_max());
+      }
+      if constexpr (HasStepLimits<M>) {
+        if (want_limits) {
+#pragma omp single
+          thread_limits.resize(static_cast<std::size_t>(omp_threads()));
+          StepLimits& mine = thread_limits[static_cast<std::size_t>(omp_thread())];
+#pragma omp for schedule(static)
+          for (int i = 0; i < n; ++i) m.step_limits(dx, W_[i], mine);
+        }
+      }
+    }
+    for (const auto& l : thread_limits) rep.limits.merge(l);
+    rep.max_speed = smax;
+    if (bad != std::numeric_limits<int>::max()) {
+      rep.bad_cell = bad;
+      rep.bad_state = W_[bad];
+    }
+    (void)dx;
+    return rep;
+  }
+
  private:
   static State face_state(const State& a, const State& b) {
     State w;

@@ -86,6 +86,7 @@ HallMhd::State ModelSetup<HallMhd>::primitive(const HallMhd& m, const PlasmaPoin
 
 bool ModelSetup<HallMhd>::perturb(const HallMhd& m, const io::RunFile& rf, const CaseSetup& c, Field<State>& W) {
   const std::string kind = rf.get_string("initial.kind");
+  if (kind != "circular" && kind != "wave" && kind != "uniform" && kind != "riemann") return false;  // another model's
   if (kind != "circular" && rf.given("initial.branch"))
     rf.fail("initial.branch", "only the circular kind takes 'branch'");
   if (m.ideal.closure == Closure::adiabatic && kind != "wave")

@@ -28,7 +28,8 @@ void declare_mhd_keys(io::Schema& schema) {
                 "v_A/sqrt(1 + v_A^2/c^2)")
       .def(false);
   model.real("light_speed", "m/s",
-             "displacement current: a reduced light speed c (default: the physical c of the unit system)")
+             "a reduced light speed c (default: the physical c of the unit system): of the displacement "
+             "current (mhd, hall), of Maxwell's equations (two-fluid)")
       .positive();
 
   io::Section& init = schema.root().section("initial", "the state at t = 0");
@@ -39,13 +40,14 @@ void declare_mhd_keys(io::Schema& schema) {
       .def("forward");
   init.real("amplitude", "", "wave: peak perturbation relative to the background scales "
                              "(density rho0, velocities c_f, fields sqrt(mu0 rho0) c_f, pressure rho0 c_f^2); "
-                             "circular: |delta B_perp| / |B0|")
+                             "circular: |delta B_perp| / |B0|; langmuir: delta n_e / n_e)")
       .positive()
       .def(1e-4);
-  init.real("wavelength", "m", "wave, circular: wavelength (default: the tube length)").positive();
-  init.choice("branch", {"right", "left"},
+  init.real("wavelength", "m", "wave, circular, langmuir: wavelength (default: the tube length)").positive();
+  init.choice("branch", {"right", "left", "linear"},
               "circular: sense of rotation in time about B0, right (electron sense: the whistler "
-              "branch with Hall physics) or left (ion sense: the ion-cyclotron branch)")
+              "branch with Hall physics) or left (ion sense: the ion-cyclotron branch); two-fluid "
+              "also linear (R and L of half the amplitude each: polarised along y)")
       .def("right");
 }
 
@@ -60,6 +62,8 @@ CircularWave read_circular_wave(const io::RunFile& rf, const CaseSetup& c, const
   if (rf.get_string("initial.direction") == "standing")
     rf.fail("initial.direction", "a circular wave travels: choose forward or backward");
   w.direction = rf.get_string("initial.direction") == "forward" ? 1 : -1;
+  if (rf.get_string("initial.branch") == "linear")
+    rf.fail("initial.branch", "linear (R + L) is available for the two-fluid model only");
   w.right = rf.get_string("initial.branch") == "right";
   w.db = rf.get_real("initial.amplitude") * std::abs(m.bx);
   w.x0 = c.grid.x_min;
@@ -259,6 +263,7 @@ void require_pressure(const io::RunFile& rf, const CaseSetup& c, const std::func
 
 bool ModelSetup<Mhd>::perturb(const Mhd& m, const io::RunFile& rf, const CaseSetup& c, Field<State>& W) {
   const std::string kind = rf.get_string("initial.kind");
+  if (kind != "wave" && kind != "circular" && kind != "uniform" && kind != "riemann") return false;  // another model's
   if (kind != "circular" && rf.given("initial.branch"))
     rf.fail("initial.branch", "only the circular kind takes 'branch'");
   if (kind == "circular") {

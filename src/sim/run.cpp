@@ -6,6 +6,7 @@
 #include "sim/initial.hpp"
 #include "sim/mhd_setup.hpp"
 #include "sim/runner.hpp"
+#include "sim/twofluid_setup.hpp"
 
 namespace tw {
 
@@ -14,7 +15,7 @@ namespace {
 /// The model catalogue: the `model.equations` and `model.form` choices. A new model adds
 /// its name here, its keys in build_schema() and a branch in dispatch().
 const std::vector<std::string>& equation_names() {
-  static const std::vector<std::string> n{"mhd", "hall"};
+  static const std::vector<std::string> n{"mhd", "hall", "two-fluid"};
   return n;
 }
 const std::vector<std::string>& form_names() {
@@ -25,14 +26,19 @@ const std::vector<std::string>& form_names() {
 io::Schema build_schema() {
   io::Schema s;
   io::Section& model = s.root().section("model", "which equations are solved");
-  model.choice("equations", equation_names(), "the model: ideal/resistive MHD (mhd) or Hall MHD (hall)").def("mhd");
+  model.choice("equations", equation_names(),
+               "the model: ideal/resistive MHD (mhd), Hall MHD (hall), or ion and electron fluids with "
+               "Maxwell's equations (two-fluid)")
+      .def("mhd");
   model.choice("form", form_names(), "full nonlinear equations").def("nonlinear");
   declare_case_keys(s);
   declare_drive_keys(s);
   std::vector<std::string> kinds = mhd_initial_kinds();
+  for (const auto& k : twofluid_initial_kinds()) kinds.push_back(k);
   declare_initial_keys(s, kinds);
   declare_mhd_keys(s);
   declare_hall_keys(s);
+  declare_twofluid_keys(s);
   return s;
 }
 
@@ -43,12 +49,17 @@ auto dispatch(const io::RunFile& rf, CaseSetup c, F&& f) {
   if (c.equations != "hall")
     for (const auto& k : hall_only_keys())
       if (rf.given("model." + k)) rf.fail("model." + k, "only the hall model takes '" + k + "'");
+  if (c.equations != "two-fluid") reject_two_fluid_keys(rf, c.equations);
   if (c.equations == "mhd") {
     CaseRunner<Mhd> runner(rf, std::move(c));
     return f(runner);
   }
   if (c.equations == "hall") {
     CaseRunner<HallMhd> runner(rf, std::move(c));
+    return f(runner);
+  }
+  if (c.equations == "two-fluid") {
+    CaseRunner<TwoFluid> runner(rf, std::move(c));
     return f(runner);
   }
   rf.fail("model.equations", "model '" + c.equations + "' is not built into this tubewave");

@@ -149,6 +149,8 @@ class CaseRunner {
       hist.push_back({v.name + "_inflow", c_.units.unit(v.units),
                       "time-integrated net flux in through both ends (total - initial total, if conserved)"});
     }
+    if constexpr (HasDiagnostics<M>)
+      for (const auto& v : M::diagnostic_info()) hist.push_back({v.name, c_.units.unit(v.units), v.description});
     io::Series snaps = out.create_series("snapshots", cols, g.n_cells, 1, true);
     std::optional<io::Series> probes;
     if (!c_.output.probes.empty())
@@ -351,6 +353,11 @@ class CaseRunner {
     for (int k = 0; k < N; ++k) {
       buf_.push_back(total[k] * dx);
       buf_.push_back(bf[0][k] - bf[1][k]);
+    }
+    if constexpr (HasDiagnostics<M>) {
+      std::vector<real> d(M::diagnostic_info().size());
+      model_.diagnostics(c_.grid, U_, d.data());
+      buf_.insert(buf_.end(), d.begin(), d.end());
     }
     s.append(t, step, buf_);
   }
