@@ -32,7 +32,7 @@ double largest(const std::vector<double>& v) {
 
 }  // namespace
 
-TEST_CASE("Hall MHD: a sheet current radiates the power of its R and L waves; the budget closes",
+TEST_CASE("Hall MHD: a sheet current radiates the power of its R and L waves and the budget closes",
           "[validation][antenna][hall]") {
   // A linearly polarised sheet current K0 cos(w t) is the sum of a right- and a
   // left-handed one of K0/2 each. Each launches circularly polarised waves both ways with

@@ -48,7 +48,7 @@ double largest(const std::vector<double>& v) {
 
 }  // namespace
 
-TEST_CASE("two-fluid: a sheet current radiates the power of its R and L waves; the budget closes",
+TEST_CASE("two-fluid: a sheet current radiates the power of its R and L waves and the budget closes",
           "[validation][antenna][twofluid]") {
   // As derived in test_hall_drives.cpp: <P> = sum over R and L of mu0 (K0/2)^2 v_ph / 2,
   // each times its gaussian form factor exp(-k^2 sigma^2), k = w / v_ph. The antenna
@@ -80,7 +80,7 @@ antennas:
   CHECK(res < 1e-6 * work);
 }
 
-TEST_CASE("two-fluid: a moving end plate is loaded as its R and L waves predict; the budget closes",
+TEST_CASE("two-fluid: a moving end plate is loaded as its R and L waves predict and the budget closes",
           "[validation][antenna][twofluid]") {
   // The plate moves the plasma at v(t) (both species, and E = -v x B, as a conducting
   // plate does). Each circular component launches E = v B0 and b = E / v_ph, carrying
