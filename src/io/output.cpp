@@ -7,6 +7,7 @@
 #include <ctime>
 #include <filesystem>
 #include <random>
+#include <set>
 #include <system_error>
 #include <utility>
 
@@ -363,6 +364,7 @@ struct OutputFile::Impl {
   std::string run_id;                   ///< root attribute run_id
   int restarts = 0;                     ///< written to /status
   std::map<std::string, std::size_t> resume_rows;  ///< append mode: rows each series keeps
+  std::set<std::string> scalars_written;           ///< write_scalars groups of this run segment
   std::vector<std::shared_ptr<SeriesState>> series;
 
   Impl(std::string final, std::string temp)
@@ -497,8 +499,10 @@ OutputFile::OutputFile(std::string final_path, const ResumePoint& resume) {
   Handle fapl = strong_close_fapl(temp);
   im.file = own(H5Fopen(temp.c_str(), H5F_ACC_RDWR, fapl.get()), Kind::file, temp, "open");
   const hid_t root = im.file.get();
-  if (link_exists(root, "status"))
-    check(H5Ldelete(root, "status", H5P_DEFAULT), temp, "remove", "/status");
+  // How the earlier segment ended, and results measured on a finished file, no longer hold.
+  for (const char* stale : {"status", "measurements"})
+    if (link_exists(root, stale))
+      check(H5Ldelete(root, stale, H5P_DEFAULT), temp, "remove", std::string("/") + stale);
   set_complete(root, 0, temp);
 }
 
@@ -572,6 +576,43 @@ void OutputFile::write_parameters(const std::vector<ParameterValue>& params) {
           "write dataset", object);
     write_units(ds.get(), p.units, p.description, file, object);
   }
+}
+
+void OutputFile::write_scalars(const std::string& path, const std::vector<ParameterValue>& values,
+                               const std::vector<std::pair<std::string, std::string>>& attributes) {
+  impl_->require_open("write_scalars");
+  const std::string& file = impl_->temp_path;
+  Handle g;
+  std::string object;
+  std::size_t start = 0;
+  while (start <= path.size()) {
+    const auto slash = path.find('/', start);
+    const std::string part = path.substr(start, slash == std::string::npos ? std::string::npos : slash - start);
+    TW_CHECK(valid_link_name(part), "invalid group path '" + path + "'");
+    const hid_t parent = g.valid() ? g.get() : impl_->file.get();
+    object += "/" + part;
+    const bool last = slash == std::string::npos;
+    // Append mode: the summaries the stopped segment wrote at its end are replaced.
+    if (last && impl_->appending && impl_->scalars_written.insert(path).second && link_exists(parent, part))
+      check(H5Ldelete(parent, part.c_str(), H5P_DEFAULT), file, "remove", object);
+    g = link_exists(parent, part) ? own(H5Gopen2(parent, part.c_str(), H5P_DEFAULT), Kind::group, file, "open group", object)
+                                  : create_group(parent, part, file, object);
+    if (last) break;
+    start = slash + 1;
+  }
+  Handle space = scalar_space(file);
+  for (const ParameterValue& p : values) {
+    TW_CHECK(valid_link_name(p.name), "invalid dataset name '" + p.name + "'");
+    TW_CHECK(!link_exists(g.get(), p.name), "'" + p.name + "' written twice in " + object);
+    const std::string obj = object + "/" + p.name;
+    Handle ds = own(H5Dcreate2(g.get(), p.name.c_str(), H5T_IEEE_F64LE, space.get(), H5P_DEFAULT,
+                               H5P_DEFAULT, H5P_DEFAULT),
+                    Kind::dataset, file, "create dataset", obj);
+    check(H5Dwrite(ds.get(), H5T_NATIVE_DOUBLE, H5S_ALL, H5S_ALL, H5P_DEFAULT, &p.value), file,
+          "write dataset", obj);
+    write_units(ds.get(), p.units, p.description, file, obj);
+  }
+  for (const auto& [name, value] : attributes) write_string_attr(g.get(), name.c_str(), value, file, object);
 }
 
 void OutputFile::write_grid(std::span<const real> x_centres, std::span<const real> x_faces) {

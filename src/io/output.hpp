@@ -40,12 +40,15 @@
 /// to the temporary name and the copy is opened for writing; <path> itself stays as it was
 /// until the continued run publishes or closes. `create_series` then reopens each existing
 /// series, cut back to the rows the checkpoint recorded (rows written after the checkpoint
-/// are dropped, so the continued run writes them again, identically). /status is removed
-/// (close_as writes it anew) and the header (provenance, parameters, grid) is kept.
+/// are dropped, so the continued run writes them again, identically). /status and
+/// /measurements are removed (close_as writes the first anew; the second described the file
+/// before), a write_scalars group replaces the one the stopped segment wrote, and the header
+/// (provenance, parameters, grid) is kept.
 #include <map>
 #include <memory>
 #include <span>
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "core/types.hpp"
@@ -134,6 +137,11 @@ class OutputFile {
   void write_provenance(const Provenance& p);
   void write_parameters(const std::vector<ParameterValue>& params);
   void write_grid(std::span<const real> x_centres, std::span<const real> x_faces);
+  /// Scalar float64 datasets (with units and description) in the group at `path`
+  /// ("antennas/antenna1"; the group and its parents are created as needed), and string
+  /// attributes on that group. Used for per-antenna and per-region summaries.
+  void write_scalars(const std::string& path, const std::vector<ParameterValue>& values,
+                     const std::vector<std::pair<std::string, std::string>>& attributes = {});
 
   /// Declare a series group. `width` values per column per row; `rows_per_chunk` sets the
   /// HDF5 chunking (snapshots: 1 row per chunk and compressed; probes/history: many rows).

@@ -43,6 +43,7 @@
 #include "io/schema.hpp"
 #include "numerics/fv_operator.hpp"
 #include "sim/cadence.hpp"
+#include "sim/loop_state.hpp"
 #include "time/stepper.hpp"
 
 namespace tw {
@@ -112,18 +113,6 @@ void check_checkpoint_case(const io::CheckpointData& data, const std::string& ch
 /// What a continued run keeps of its output.
 io::ResumePoint resume_point(const io::CheckpointData& data);
 
-/// The time loop's own variables, by reference, under the names they have in checkpoints.
-/// A diagnostic that adds a cadence, a counter or an accumulator registers it here so it
-/// survives a restart (DEVELOPERS.md, "Adding a diagnostic").
-struct LoopVariables {
-  real* t = nullptr;
-  long* step = nullptr;
-  real* t_snap_last = nullptr;
-  std::vector<std::pair<std::string, Cadence*>> cadences;
-  std::vector<std::pair<std::string, long*>> counters;
-  std::vector<std::pair<std::string, std::span<real>>> accumulators;
-};
-
 /// The stateful drives among the operator's ends and sources, by checkpoint name.
 template <Model M>
 std::vector<std::pair<std::string, const DriveState*>> stateful_drives(const FvOperator<M>& op) {
@@ -136,8 +125,61 @@ std::vector<std::pair<std::string, const DriveState*>> stateful_drives(const FvO
   return d;
 }
 
-/// Fill the loop part of a checkpoint: state, loop variables, the Stepper's boundary-flux
-/// integrals ("boundary_flux": left end's N values, then the right end's), drive states.
+/// The Stepper's time integrals as named accumulators: the flux through each end of every
+/// conserved variable ("boundary_flux": left end's N values, then the right end's), the
+/// energy in through the ends, the work of every source term and the dissipated heat.
+template <Model M>
+std::vector<std::pair<std::string, Accumulator>> stepper_accumulators(const Stepper<M>& stepper) {
+  constexpr int N = M::n_vars;
+  auto* st = const_cast<Stepper<M>*>(&stepper);  // restore() writes; save() only reads
+  const auto size_error = [](std::size_t got, std::size_t want) {
+    return InputError("it holds " + std::to_string(got) + " values, this run " + std::to_string(want));
+  };
+  std::vector<std::pair<std::string, Accumulator>> a;
+  a.emplace_back("boundary_flux",
+                 Accumulator{[st] {
+                               std::vector<real> v;
+                               for (const auto& side : st->boundary_flux_integrals()) v.insert(v.end(), side.begin(), side.end());
+                               return v;
+                             },
+                             [st, size_error](std::span<const real> v) {
+                               if (v.size() != 2 * static_cast<std::size_t>(N)) throw size_error(v.size(), 2 * N);
+                               std::array<typename M::State, 2> b{};
+                               for (int s = 0; s < 2; ++s)
+                                 for (int k = 0; k < N; ++k) b[static_cast<std::size_t>(s)][k] = v[static_cast<std::size_t>(s) * N + k];
+                               st->set_boundary_flux_integrals(b);
+                             }});
+  a.emplace_back("energy_inflow", Accumulator{[st] {
+                                                const auto& e = st->energy_inflow();
+                                                return std::vector<real>(e.begin(), e.end());
+                                              },
+                                              [st, size_error](std::span<const real> v) {
+                                                if (v.size() != 2) throw size_error(v.size(), 2);
+                                                st->set_energy_inflow({v[0], v[1]});
+                                              }});
+  a.emplace_back("source_work", Accumulator{[st] { return st->source_work(); },
+                                            [st](std::span<const real> v) {
+                                              st->set_source_work(std::vector<real>(v.begin(), v.end()));
+                                            }});
+  a.emplace_back("dissipated", Accumulator{[st] {
+                                             const Dissipation& d = st->dissipated();
+                                             return std::vector<real>{d.resistive, d.viscous, d.collisional,
+                                                                      d.retained ? 1.0 : 0.0};
+                                           },
+                                           [st, size_error](std::span<const real> v) {
+                                             if (v.size() != 4) throw size_error(v.size(), 4);
+                                             Dissipation d;
+                                             d.resistive = v[0];
+                                             d.viscous = v[1];
+                                             d.collisional = v[2];
+                                             d.retained = v[3] != 0;
+                                             st->set_dissipated(d);
+                                           }});
+  return a;
+}
+
+/// Fill the loop part of a checkpoint: state, loop variables, the Stepper's time integrals
+/// (stepper_accumulators), drive states.
 template <Model M>
 void capture_run_state(const Field<typename M::State>& U, const Stepper<M>& stepper,
                        const LoopVariables& loop, io::CheckpointData& d) {
@@ -153,11 +195,8 @@ void capture_run_state(const Field<typename M::State>& U, const Stepper<M>& step
   d.t_snap_last = *loop.t_snap_last;
   for (const auto& [name, c] : loop.cadences) d.cadences[name] = c->next_index();
   for (const auto& [name, v] : loop.counters) d.counters[name] = *v;
-  for (const auto& [name, a] : loop.accumulators) d.accumulators[name].assign(a.begin(), a.end());
-  const auto& bf = stepper.boundary_flux_integrals();
-  auto& acc = d.accumulators["boundary_flux"];
-  acc.clear();
-  for (const auto& side : bf) acc.insert(acc.end(), side.begin(), side.end());
+  for (const auto& [name, a] : loop.accumulators) d.accumulators[name] = a.save();
+  for (const auto& [name, a] : stepper_accumulators(stepper)) d.accumulators[name] = a.save();
   for (const auto& [name, s] : stateful_drives(stepper.op())) d.drives[name] = s->drive_state();
 }
 
@@ -196,18 +235,17 @@ void restore_run_state(const io::CheckpointData& d, const std::string& path, Fie
   for (const auto& [name, c] : loop.cadences) c->set_next_index(take(d.cadences, "cadence", name));
   same_names(d.counters, loop.counters, "counter", 0);
   for (const auto& [name, v] : loop.counters) *v = take(d.counters, "counter", name);
-  same_names(d.accumulators, loop.accumulators, "accumulator", 1);
-  for (const auto& [name, a] : loop.accumulators) {
+  auto accumulators = loop.accumulators;
+  for (auto& a : stepper_accumulators(stepper)) accumulators.push_back(std::move(a));
+  same_names(d.accumulators, accumulators, "accumulator", 0);
+  for (const auto& [name, a] : accumulators) {
     const auto v = take(d.accumulators, "accumulator", name);
-    if (v.size() != a.size()) refuse("accumulator '" + name + "' has " + std::to_string(v.size()) + " values");
-    std::copy(v.begin(), v.end(), a.begin());
+    try {
+      a.restore(v);
+    } catch (const InputError& e) {
+      refuse("accumulator '" + name + "': " + e.what());
+    }
   }
-  const auto bf = take(d.accumulators, "accumulator", "boundary_flux");
-  if (bf.size() != 2 * static_cast<std::size_t>(N)) refuse("its boundary-flux integrals have " + std::to_string(bf.size()) + " values");
-  std::array<typename M::State, 2> b{};
-  for (int s = 0; s < 2; ++s)
-    for (int k = 0; k < N; ++k) b[static_cast<std::size_t>(s)][k] = bf[static_cast<std::size_t>(s) * N + k];
-  stepper.set_boundary_flux_integrals(b);
   const auto drives = stateful_drives(stepper.op());
   same_names(d.drives, drives, "drive state", 0);
   for (const auto& [name, s] : drives) s->restore_drive_state(take(d.drives, "drive state", name));

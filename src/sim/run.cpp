@@ -2,6 +2,7 @@
 
 #include "sim/case.hpp"
 #include "sim/checkpoint.hpp"
+#include "sim/drives.hpp"
 #include "sim/hall_setup.hpp"
 #include "sim/initial.hpp"
 #include "sim/mhd_setup.hpp"
@@ -33,6 +34,7 @@ io::Schema build_schema() {
   model.choice("form", form_names(), "full nonlinear equations").def("nonlinear");
   declare_case_keys(s);
   declare_checkpoint_keys(s);
+  declare_drive_keys(s);
   std::vector<std::string> kinds = mhd_initial_kinds();
   for (const auto& k : twofluid_initial_kinds()) kinds.push_back(k);
   declare_initial_keys(s, kinds);

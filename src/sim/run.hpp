@@ -47,6 +47,7 @@ struct RunSummary {
   long checkpoints = 0;          ///< checkpoints written by this segment of the run
   std::string checkpoint_file;   ///< the checkpoint written when the run was stopped, else ""
   int restarts = 0;              ///< times the run was continued from a checkpoint
+  std::vector<std::string> notes;  ///< one-line results worth printing (antenna powers, reflections)
 };
 
 /// Run a validated case and write its output file. Bad input in the model-dependent parts

@@ -1,17 +1,19 @@
 // A run that blows up is stopped before any non-finite or non-physical value reaches the
-// output; the last good state is written as the final snapshot, the file is marked failed
-// and the exit code is 1.
+// output (every series: fields, probes, history, budget, drive power); the last good state
+// is written as the final snapshot, the file is marked failed and the exit code is 1.
 //
 // How to force a blow-up honestly: `numerics.cfl` is validated to be at most 1, so no valid
 // run file asks for a step beyond the CFL limit, and a hidden override of that check would
 // test something users cannot do. What a run file can ask for is a drive far too violent for
 // the column. The step is sized from the state at its start (Stepper::step); here the left
-// end plate turns at 1e8 m/s (about 100 v_A; circular polarization with no turn-on, so it
-// moves at full speed from t = 0) and drags the field lines so hard that the transverse
-// field near the plate, and with it the fast speed, grows many-fold within one step: the
-// waves then cross far more than one cell per step (an effective Courant number far above
-// 1) and the state goes non-physical within a few tens of steps. Measured: 44 steps with 400
-// cells; the case also fails with 100 and 800 cells, while 3e7 m/s runs through.
+// end plate, at rest for 0.5 us, starts turning at 1e8 m/s (about 100 v_A; circular
+// polarization, no turn-on, `delay: 0.5e-6`) in the middle of a step sized for the quiet
+// column, and drags the field lines so hard that the transverse field near the plate, and
+// with it the fast speed, grows many-fold within a step: the waves then cross far more than
+// one cell per step (an effective Courant number far above 1) and the state goes
+// non-physical within a few steps of the start. Measured: it fails after about 280 good
+// steps with 100, 200, 400 and 800 cells, at t = 0.51 to 0.59 us; at 3e7 m/s the runs go
+// through.
 #include <catch2/catch.hpp>
 #include <filesystem>
 #include <string>
@@ -28,12 +30,19 @@ using tw::test::source_path;
 TEST_CASE("blow-up: a drive far too violent for the column is caught; the last good state is kept",
           "[unit][blowup]") {
   const ScratchDir dir("blowup");
-  const auto r = tw::test::run_tubewave(
-      "run '" + source_path("configs/demo_column.yaml").string() +
-          "' -o blowup.h5 --quiet --threads 1 --set grid.cells=400 --set time.end=1e-6"
-          " --set boundaries.left.velocity_amplitude=1e8 --set boundaries.left.polarization=right"
-          " --set boundaries.left.ramp_periods=0",
-      dir.path());
+  tw::test::write_text(dir / "column.yaml", R"(title: a drive far too violent for the column
+model: {equations: mhd, closure: adiabatic}
+plasma: {ion: He, density: 1.5e18, electron_temperature: 6, ion_temperature: 1, field: 0.1}
+grid: {length: 16.0, cells: 400}
+time: {end: 2.0e-6}
+numerics: {reconstruction: plm, limiter: mc, flux: hlld, integrator: ssp-rk2, cfl: 0.8}
+boundaries:
+  left: {kind: driven, velocity_amplitude: 1.0e8, frequency: 1.0e5, polarization: right,
+         ramp_periods: 0, delay: 0.5e-6}
+  right: {kind: conducting}
+output: {snapshot_interval: 0.1e-6, probe_interval: 0.05e-6, probes: [2.0, 8.0]}
+)");
+  const auto r = tw::test::run_tubewave("run column.yaml -o blowup.h5 --quiet --threads 1", dir.path());
   INFO(r.output);
   CHECK(r.exit_code == 1);
   CHECK_THAT(r.output, Contains("failed"));
@@ -48,15 +57,17 @@ TEST_CASE("blow-up: a drive far too violent for the column is caught; the last g
   CHECK_THROWS_WITH(tw::io::H5Reader::open_complete_or_throw(file), Contains("outcome 'failed'"));
   // Nothing non-finite anywhere in the file.
   std::string where;
-  CHECK(tw::test::all_finite(file, &where));
+  const bool finite = tw::test::all_finite(file, &where);
   INFO("non-finite values in " << where);
+  CHECK(finite);
+  CHECK(h.is_dataset("/budget/total"));  // the budget series is among those checked
 
   // The final snapshot is the last good state: its time and step are the status's, after the
   // start, and it is physical (positive density and pressure in every cell).
   const double t_good = h.attr_real("/status", "simulated_time");
   const long steps = h.attr_int("/status", "steps");
-  CHECK(t_good > 0);
-  CHECK(steps > 0);
+  CHECK(t_good > 0.5e-6);  // after the drive started: not the initial state
+  CHECK(steps > 100);
   const auto times = h.read_real("/snapshots/time");
   const auto step_rows = h.read_real("/snapshots/step");
   REQUIRE(times.size() >= 2);

@@ -54,7 +54,7 @@ struct Rig {
   std::vector<real> energy_in{0, 0};
   tw::LoopVariables loop() {
     return {&t, &step, &t_snap_last, {{"snapshots", &snaps}}, {{"snapshots", &snapshots}},
-            {{"energy_in", std::span<real>(energy_in)}}};
+            {{"energy_in", tw::accumulator_over(std::span<real>(energy_in))}}};
   }
 };
 
@@ -74,12 +74,22 @@ TEST_CASE("checkpoint state: capture and restore are exact inverses", "[unit][ch
   bf[0][0] = 3.25;
   bf[1][Mhd::n_vars - 1] = -1e-9;
   a.stepper.set_boundary_flux_integrals(bf);
+  a.stepper.set_energy_inflow({2.5, -0.125});
+  a.stepper.set_source_work({1e-3, 7.0});
+  tw::Dissipation heat;
+  heat.resistive = 0.5;
+  heat.collisional = 1e-12;
+  heat.retained = false;
+  a.stepper.set_dissipated(heat);
   a.left->state_ = {0.75, 42.0};
 
   tw::io::CheckpointData d;
   tw::capture_run_state(a.U, a.stepper, a.loop(), d);
   CHECK(d.drives.at("left_end") == std::vector<real>{0.75, 42.0});
   CHECK(d.accumulators.at("boundary_flux").size() == 2 * Mhd::n_vars);
+  CHECK(d.accumulators.count("energy_inflow") == 1);
+  CHECK(d.accumulators.count("source_work") == 1);
+  CHECK(d.accumulators.count("dissipated") == 1);
 
   Rig b;
   tw::restore_run_state(d, "ck.h5", b.U, b.stepper, b.loop());
@@ -91,6 +101,11 @@ TEST_CASE("checkpoint state: capture and restore are exact inverses", "[unit][ch
   CHECK(b.snaps.next_index() == a.snaps.next_index());
   CHECK(b.energy_in == a.energy_in);
   CHECK(b.stepper.boundary_flux_integrals() == bf);
+  CHECK(b.stepper.energy_inflow() == std::array<real, 2>{2.5, -0.125});
+  CHECK(b.stepper.source_work() == std::vector<real>{1e-3, 7.0});
+  CHECK(b.stepper.dissipated().resistive == 0.5);
+  CHECK(b.stepper.dissipated().collisional == 1e-12);
+  CHECK_FALSE(b.stepper.dissipated().retained);
   CHECK(b.left->state_ == std::vector<real>{0.75, 42.0});
 }
 
@@ -108,7 +123,7 @@ TEST_CASE("checkpoint state: a checkpoint of another loop is refused by name", "
   SECTION("an accumulator of another size") {
     d.accumulators["energy_in"] = {1.0};
     CHECK_THROWS_WITH(tw::restore_run_state(d, "ck.h5", b.U, b.stepper, b.loop()),
-                      Contains("accumulator 'energy_in' has 1 values"));
+                      Contains("accumulator 'energy_in': it holds 1 values, this run 2"));
   }
   SECTION("no state for a stateful drive") {
     d.drives.clear();

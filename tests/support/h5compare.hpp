@@ -14,8 +14,11 @@ namespace tw::test {
 std::vector<std::string> bitwise_differences(const std::string& a, const std::string& b,
                                              int* compared = nullptr);
 
-/// True when every numeric value in every dataset of the file (outside /provenance) is finite.
-/// `where` receives the first dataset holding a non-finite value.
+/// True when every value the run wrote as it went is finite: every dataset of every series
+/// (a group with a `time` dataset: snapshots, probes, history, budget, ...) and the grid.
+/// The summaries written after the run (/antennas, /regions) are left out: they hold NaN by
+/// design where a figure does not apply (README). `where` receives the first dataset
+/// holding a non-finite value.
 bool all_finite(const std::string& file, std::string* where = nullptr);
 
 }  // namespace tw::test
