@@ -61,3 +61,4 @@ bool flux_supported(FluxKind k) {
 
 // Model-specific solvers that register themselves with FluxFor (after the catalogue above).
 #include "numerics/twofluid_flux.hpp"  // IWYU pragma: export
+#include "numerics/linear_flux.hpp"    // IWYU pragma: export

@@ -10,7 +10,8 @@
 ///      whole-grid recover_primitives() runs between the cell loop and the check;
 ///   2. ghost cells from the two boundary objects;
 ///   3. reconstruction of the two face values of each cell;
-///   4. numerical flux at each face, plus the model's gradient flux;
+///   4. numerical flux at each face, plus the model's gradient flux (a face-aware solver or
+///      gradient flux is told the face: see FaceAwareSolver, HasFaceGradientFlux);
 ///   5. flux difference plus sources.
 /// No pass has an order-dependent floating-point reduction (max and min are exact), so
 /// results are bitwise identical for any thread count.
@@ -61,6 +62,21 @@ struct RhsReport {
   Vec<N> bad_state{};            ///< its primitive state
   Vec<N> flux_left{}, flux_right{};  ///< numerical flux through face 0 and face n
   StepLimits limits;             ///< the model's extra limits (when requested)
+};
+
+/// A flux solver that needs to know its face (the linearized models' per-face upwind flux):
+/// called as solver(m, WL, WR, face) with face = 0 .. n_cells.
+template <class S, class M>
+concept FaceAwareSolver = requires(const S s, const M m, const typename M::State& w, int face) {
+  { s(m, w, w, face) } -> std::same_as<FaceFlux<M::n_vars>>;
+};
+
+/// A model whose gradient flux depends on the face (a background varying along x):
+/// m.face_gradient_flux(face, W_left_cell, W_right_cell, dx), used instead of gradient_flux.
+template <class M>
+concept HasFaceGradientFlux = requires(const M m, const typename M::State& s, real dx, int face) {
+  { m.face_gradient_flux(face, s, s, dx) } -> std::same_as<typename M::State>;
+  { m.gradient_terms_active() } -> std::same_as<bool>;
 };
 
 template <Model M>
@@ -310,8 +326,16 @@ class FvOperator {
       const bool grad = gradient_active(m);
 #pragma omp for schedule(static) reduction(max : smax)
       for (int f = 0; f <= n; ++f) {
-        auto ff = solver(m, Wp_[f - 1], Wm_[f]);
-        if constexpr (HasGradientFlux<M>) {
+        auto ff = [&] {
+          if constexpr (FaceAwareSolver<FluxT, M>) return solver(m, Wp_[f - 1], Wm_[f], f);
+          else return solver(m, Wp_[f - 1], Wm_[f]);
+        }();
+        if constexpr (HasFaceGradientFlux<M>) {
+          if (grad) {
+            const State g = m.face_gradient_flux(f, W_[f - 1], W_[f], dx);
+            for (int k = 0; k < N; ++k) ff.flux[k] += g[k];
+          }
+        } else if constexpr (HasGradientFlux<M>) {
           if (grad) {
             const State g = m.gradient_flux(W_[f - 1], W_[f], dx);
             for (int k = 0; k < N; ++k) ff.flux[k] += g[k];
@@ -328,7 +352,7 @@ class FvOperator {
   }
 
   static bool gradient_active(const M& m) {
-    if constexpr (HasGradientFlux<M>) return m.gradient_terms_active();
+    if constexpr (HasGradientFlux<M> || HasFaceGradientFlux<M>) return m.gradient_terms_active();
     (void)m;
     return false;
   }
