@@ -45,6 +45,16 @@ class SourceTerm {
   virtual void add(const M& model, const Grid& grid, real t, const Field<State>& W,
                    Field<State>& dUdt) const = 0;
   [[nodiscard]] virtual std::string describe() const = 0;
+  /// Energy per unit time and cross-section this term puts into the tube at (t, W)
+  /// [W/m^2]: the sum over its cells of tw::energy_rate times dx (0 for a term that does
+  /// no work). The stepper integrates it with the Runge-Kutta weights, so energy budgets
+  /// close to round-off.
+  [[nodiscard]] virtual real power(const M& /*model*/, const Grid& /*grid*/, real /*t*/,
+                                   const Field<State>& /*W*/) const {
+    return 0;
+  }
+  /// Offer this term's time-step limits (stiff relaxations), unscaled by the CFL number.
+  virtual void step_limits(const M& /*model*/, const Grid& /*grid*/, StepLimits& /*limits*/) const {}
 };
 
 /// Spatial discretisation choices.
@@ -62,6 +72,14 @@ struct RhsReport {
   Vec<N> bad_state{};            ///< its primitive state
   Vec<N> flux_left{}, flux_right{};  ///< numerical flux through face 0 and face n
   StepLimits limits;             ///< the model's extra limits (when requested)
+  /// Energy flux density along +x through face 0 and face n [W/m^2] (models with
+  /// energy_flux; 0 otherwise).
+  real energy_flux_left = 0, energy_flux_right = 0;
+  /// Heating by the model's dissipation, integrated along the tube [W/m^2] (models with
+  /// dissipation, when gradient terms are active).
+  Dissipation dissipation;
+  /// Power of each source term, in the order they were added [W/m^2].
+  std::vector<real> source_power;
 };
 
 /// A flux solver that needs to know its face (the linearized models' per-face upwind flux):
@@ -88,7 +106,8 @@ class FvOperator {
   FvOperator(const Grid& grid, SpatialScheme scheme,
              std::shared_ptr<const Boundary<M>> left, std::shared_ptr<const Boundary<M>> right)
       : grid_(grid), scheme_(scheme), left_(std::move(left)), right_(std::move(right)),
-        W_(grid), Wm_(grid), Wp_(grid), F_(static_cast<std::size_t>(grid.n_cells + 1)) {
+        W_(grid), Wm_(grid), Wp_(grid), F_(static_cast<std::size_t>(grid.n_cells + 1)),
+        D_(static_cast<std::size_t>(grid.n_cells + 1)) {
     TW_CHECK(left_ && right_, "both boundaries must be set");
     TW_CHECK(flux_supported<M>(scheme.flux), "flux not available for this model");
   }
@@ -188,6 +207,12 @@ class FvOperator {
         }
         dUdt[i] = d;
       }
+      if constexpr (HasDissipation<M>) {
+        if (gradient_active(m)) {
+#pragma omp for schedule(static)
+          for (int f = 0; f <= n; ++f) D_[static_cast<std::size_t>(f)] = m.dissipation(W_[f - 1], W_[f], dx);
+        }
+      }
       if constexpr (HasStepLimits<M>) {
         if (want_limits) {
 #pragma omp single
@@ -198,8 +223,27 @@ class FvOperator {
         }
       }
     }
-    for (const auto& s : sources_) s->add(m, grid_, t, W_, dUdt);
+    rep.source_power.resize(sources_.size());
+    for (std::size_t j = 0; j < sources_.size(); ++j) {
+      sources_[j]->add(m, grid_, t, W_, dUdt);
+      rep.source_power[j] = sources_[j]->power(m, grid_, t, W_);
+    }
     for (const auto& l : thread_limits) rep.limits.merge(l);  // fixed order: exact (min)
+    if (want_limits)
+      for (const auto& s : sources_) s->step_limits(m, grid_, rep.limits);
+    if constexpr (HasEnergyFlux<M>) {
+      rep.energy_flux_left = m.energy_flux(F_.front(), face_state(Wp_[-1], Wm_[0]));
+      rep.energy_flux_right = m.energy_flux(F_.back(), face_state(Wp_[n - 1], Wm_[n]));
+    }
+    if constexpr (HasDissipation<M>) {
+      if (gradient_active(m)) {
+        // Serial sum in a fixed order (reproducible); the end faces count half.
+        Dissipation d = 0.5 * D_.front();
+        for (int f = 1; f < n; ++f) d += D_[static_cast<std::size_t>(f)];
+        d += 0.5 * D_.back();
+        rep.dissipation = dx * d;
+      }
+    }
     rep.max_speed = smax;
     rep.flux_left = F_.front();
     rep.flux_right = F_.back();
@@ -259,6 +303,11 @@ class FvOperator {
   }
 
  private:
+  static State face_state(const State& a, const State& b) {
+    State w;
+    for (int k = 0; k < N; ++k) w[k] = 0.5 * (a[k] + b[k]);
+    return w;
+  }
   static int omp_threads() { return omp_get_num_threads(); }
   static int omp_thread() { return omp_get_thread_num(); }
 
@@ -363,6 +412,7 @@ class FvOperator {
   std::vector<std::shared_ptr<const SourceTerm<M>>> sources_;
   Field<State> W_, Wm_, Wp_;
   std::vector<State> F_;
+  std::vector<Dissipation> D_;  ///< heating at each face (when active)
 };
 
 }  // namespace tw

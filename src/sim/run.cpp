@@ -1,6 +1,7 @@
 #include "sim/run.hpp"
 
 #include "sim/case.hpp"
+#include "sim/drives.hpp"
 #include "sim/hall_setup.hpp"
 #include "sim/initial.hpp"
 #include "sim/linear_setup.hpp"
@@ -35,6 +36,7 @@ io::Schema build_schema() {
                "with model.perpendicular_wavenumber)")
       .def("nonlinear");
   declare_case_keys(s);
+  declare_drive_keys(s);
   std::vector<std::string> kinds = mhd_initial_kinds();
   for (const auto& k : twofluid_initial_kinds()) kinds.push_back(k);
   for (const auto& k : linear_initial_kinds()) kinds.push_back(k);
