@@ -77,10 +77,17 @@ real rate_scale(const std::vector<cplx>& omegas) {
 /// largest entry, would swamp the slow branches.
 void solve_at(const Symbol& s, const std::vector<real>& scale, cplx k, std::vector<cplx>& omega, CMat& vectors) {
   const int n = static_cast<int>(s.M[0].rows());
-  const CMat M = at(s.M, k), L = at(s.L, k);
-  Eigen::VectorXcd d(n);
+  Eigen::VectorXcd d(n), du(n);
   for (int j = 0; j < n; ++j) d(j) = scale[static_cast<std::size_t>(j)];
-  const CMat A = d.asDiagonal().inverse() * M.partialPivLu().solve(L) * d.asDiagonal();
+  // Rows by the size of the conserved variables (|M0| times the scales), so that the solve
+  // M^-1 L does not mix entries many orders of magnitude apart.
+  for (int r = 0; r < n; ++r) {
+    real sum = 0;
+    for (int c = 0; c < n; ++c) sum += std::abs(s.M[0](r, c)) * scale[static_cast<std::size_t>(c)];
+    du(r) = sum > 0 ? 1 / sum : 1.0;
+  }
+  const CMat M = du.asDiagonal() * at(s.M, k) * d.asDiagonal(), L = du.asDiagonal() * at(s.L, k) * d.asDiagonal();
+  const CMat A = M.partialPivLu().solve(L);
   Eigen::ComplexEigenSolver<CMat> es(A, true);
   TW_CHECK(es.info() == Eigen::Success, "dispersion: eigen-decomposition failed");
   omega.resize(static_cast<std::size_t>(n));

@@ -94,6 +94,18 @@ Mat positive_part(const Mat& A, real& spectral_radius) {
   return 0.5 * A * (Mat::Identity(n, n) + S);
 }
 
+/// (I + sign(A - shift I))/2: the projector onto the eigenvalues above `shift`, from the
+/// eigen-decomposition or, where that is ill-conditioned, from A+ of the shifted matrix.
+Mat projector_above(const Mat& A, real shift) {
+  const int n = static_cast<int>(A.rows());
+  const Mat I = Mat::Identity(n, n);
+  const Mat B = A - shift * I;
+  real rho = 0;
+  // A+ = B (I + sign B)/2, so (I + sign B)/2 = B^-1 A+ where B is regular (the shift
+  // keeps it so).
+  return B.partialPivLu().solve(positive_part(B, rho));
+}
+
 /// Complex n x n matrix as a 2n x 2n real one acting on (re, im).
 Mat realify(const Mat& re, const Mat& im) {
   const auto n = re.rows();
@@ -147,6 +159,15 @@ LinearSystem::LinearSystem(const LinearSystemSpec& spec)
     append(gm_, (A - Ap) * M0);
     speed_.push_back(rho);
     max_speed_ = std::max(max_speed_, rho);
+    if (f == 0 || f == cells_) {
+      // Outgoing characteristics of the end, in w: M0^-1 P_u M0. Zero speeds count as
+      // outgoing (extrapolated), hence the shift by a small multiple of the largest speed.
+      const real shift = 1e-7 * std::max(rho, real(1e-300));
+      const Mat As = su.asDiagonal().inverse() * A * su.asDiagonal();
+      Mat Pu = f == 0 ? Mat(Mat::Identity(n, n) - projector_above(As, shift)) : projector_above(As, -shift);
+      Pu = su.asDiagonal() * Pu * su.asDiagonal().inverse();
+      append(out_[f == 0 ? 0 : 1], M0.inverse() * Pu * M0);
+    }
     if (gradient_) {
       append(ga_re_, mat(c.K0[0]));
       append(ga_im_, k * (mat(c.K[0][1]) + mat(c.K[1][0])));

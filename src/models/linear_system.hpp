@@ -107,6 +107,10 @@ class LinearSystem {
   /// factorization is kept and reused while the linear part of `ends` is unchanged.
   void to_primitive_coupled(const real* u, const GhostAffine& ends, real* w) const;
 
+  /// Projector (n x n, row-major, acting on w) onto the characteristics of the ideal flux
+  /// that leave through the left (side 0, speeds <= 0) or right end (side 1, speeds >= 0),
+  /// at the end face's background: for non-reflecting (open) ends.
+  [[nodiscard]] const std::vector<real>& outgoing_projector(int side) const { return out_[side]; }
   /// Largest wave speed along x over all faces [m/s].
   [[nodiscard]] real max_speed() const { return max_speed_; }
   /// Step limits of the linear terms, without the CFL factor [s]: the k_perp terms with
@@ -122,6 +126,7 @@ class LinearSystem {
   std::vector<StepLimit> limits_;
   // per face (n x n each, row-major, contiguous by face)
   std::vector<real> gp_, gm_, speed_;
+  std::vector<real> out_[2];               // outgoing projectors at faces 0 and n
   std::vector<real> ga_re_, ga_im_, gd_;   // gradient: A (complex), D (real)
   std::vector<real> na_re_, na_im_, nd_;   // inertia:  A (complex), D (real)
   // per cell

@@ -38,12 +38,6 @@
 namespace tw {
 
 template <class M>
-concept HasModelTransverseVelocity = requires(const M m, typename M::State& W, real v) {
-  { m.transverse_velocity(W) };
-  { m.set_transverse_velocity(W, v, v) };
-};
-
-template <class M>
 struct Linearized {
   using Form = LinearForm<M>;
   static constexpr int nc = Form::n;      ///< complex variables
@@ -164,17 +158,29 @@ struct Linearized {
   /// Driven ends move the (ion) velocity perturbation across the tube; its amplitude is
   /// real (the plate moves as v(t) cos(k_perp y)).
   [[nodiscard]] std::array<real, 2> transverse_velocity(const State& W) const
-    requires HasModelTransverseVelocity<M>
+    requires HasTransverseVelocity<M>
   {
     static const VariableRoles r = Form::roles();
     return {W[r.vy], W[r.vz]};
   }
   void set_transverse_velocity(State& W, real vy, real vz) const
-    requires HasModelTransverseVelocity<M>
+    requires HasTransverseVelocity<M>
   {
     static const VariableRoles r = Form::roles();
     W[r.vy] = vy;
     W[r.vz] = vz;
+  }
+
+  /// Open ends: the projector onto the outgoing characteristics of the end face's
+  /// background (drive/open_end.hpp), on the real and imaginary parts alike.
+  [[nodiscard]] std::vector<real> open_end_projector(Side side) const {
+    const auto& p = system->outgoing_projector(side == Side::left ? 0 : 1);
+    std::vector<real> P(static_cast<std::size_t>(n_vars * n_vars), 0.0);
+    for (int part = 0; part < 2; ++part)
+      for (int r = 0; r < nc; ++r)
+        for (int c = 0; c < nc; ++c)
+          P[static_cast<std::size_t>((part * nc + r) * n_vars + part * nc + c)] = p[static_cast<std::size_t>(r * nc + c)];
+    return P;
   }
 
   /// Cell index of a cell-centre position.
