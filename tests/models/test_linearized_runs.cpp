@@ -151,7 +151,7 @@ TEST_CASE("linearized runs: kinetic, inertial and ion-cyclotron waves within 1% 
        "{equations: hall, form: linearized, perpendicular_wavenumber: 10, electron_inertia: true, resistivity: 0.0005}",
        "{density: 1, ion_temperature: 1e-5, electron_temperature: 1e-5, field: 1}",
        "{ion_inertial_length: 1, mass_ratio: 100}", 0.2, 2, "magnetic_field_z", true},
-      {"ion-cyclotron-hall", "{equations: hall, form: linearized, resistivity: 0.05}",
+      {"ion-cyclotron-hall", "{equations: hall, form: linearized, resistivity: 0.1}",
        "{density: 1, ion_temperature: 0.05, electron_temperature: 0.05, field: 1}", "{ion_inertial_length: 1}", 1.5, 2,
        "magnetic_field_y", true},
       {"inertial-alfven-two-fluid", "{equations: two-fluid, form: linearized, perpendicular_wavenumber: 10}",
