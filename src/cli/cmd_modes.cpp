@@ -140,6 +140,8 @@ std::string header_text(const ModesSetup& s) {
          fmt(s.plasma_input.Te_eV) + " eV, T_i = " + fmt(s.plasma_input.Ti_eV) + " eV; v_A = " + fmt(p.v_A) +
          " m/s, omega_ci = " + fmt(p.omega_ci) + " rad/s, d_i = " + fmt(p.d_i) + " m, d_e = " + fmt(p.d_e) + " m\n";
   }
+  if (s.normalized)
+    o += "  normalized units: k, omega, gamma and speeds in the run's code units (rad/s, Hz, 1/m, m/s below)\n";
   o += "  omega in rad/s (f = omega/2 pi in Hz), damping rate gamma = -Im omega [1/s], speeds [m/s]\n";
   return o;
 }

@@ -38,8 +38,8 @@ Symbol symbol(const DispersionInput& in) {
   s.M[0] = m(c.M0) + kp * kp * m(c.N[1][1]) - I * kp * m(c.N0[1]);
   s.M[1] = kp * (m(c.N[0][1]) + m(c.N[1][0])) - I * m(c.N0[0]);
   s.M[2] = m(c.N[0][0]);
-  s.L[0] = m(c.S) - I * kp * (m(c.G[1]) + m(c.K0[1])) + kp * kp * m(c.K[1][1]);
-  s.L[1] = -I * (m(c.G[0]) + m(c.K0[0])) + kp * (m(c.K[0][1]) + m(c.K[1][0]));
+  s.L[0] = m(c.S) - I * kp * (m(c.G[1]) + m(c.K0[1])) + kp * kp * m(c.K[1][1]) + m(c.Q0) + I * kp * m(c.Q[1]);
+  s.L[1] = -I * (m(c.G[0]) + m(c.K0[0])) + kp * (m(c.K[0][1]) + m(c.K[1][0])) + I * m(c.Q[0]);
   s.L[2] = m(c.K[0][0]);
   return s;
 }

@@ -8,7 +8,7 @@
 ///   -i omega M(k) w = L(k) w,
 ///   M(k) = M0 + k_x^2 N_xx + k_x k_perp (N_xy + N_yx) + k_perp^2 N_yy - i k_x N_x0 - i k_perp N_y0,
 ///   L(k) = S - i k_x (G_x + K_x0) - i k_perp (G_y + K_y0)
-///            + k_x^2 K_xx + k_x k_perp (K_xy + K_yx) + k_perp^2 K_yy,
+///            + k_x^2 K_xx + k_x k_perp (K_xy + K_yx) + k_perp^2 K_yy + Q_0 + i k_x Q_x + i k_perp Q_y,
 ///
 /// so the branches at real k_x are omega = i eig(M^-1 L) (complex: Im omega < 0 is
 /// damping, from resistivity, viscosity or collisions), and w the eigenvector (primitive

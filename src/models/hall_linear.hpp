@@ -13,7 +13,7 @@
 ///   F_d: MHD with the total pressure; S_i u_d, S_e u_d
 ///   H_d(B_i) = eps_idk E'_k,  E' = eta J + (J x B - grad p_e) / (e n_e)   (generalised Ohm's law)
 ///   H_d(S_e) = -S_e J_d / (e n_e)                  (adiabatic electrons move at u_e)
-///   H_d(m): viscosity as MHD
+///   H_d(m): viscosity as MHD;  Q: Powell's div B terms, as MHD
 ///   P_d(B_i) = -eps_idk d_e^2 mu0 J_k,  d_e^2 = m_e/(mu0 n_e e^2)   (electron inertia:
 ///      U_B = B + curl(d_e^2 curl B), the generalised field of the nonlinear model)
 ///
@@ -93,6 +93,10 @@ struct LinearForm<HallMhd> {
   }
   [[nodiscard]] static bool has_source() { return false; }
   [[nodiscard]] Vars source(const Vars&) const { return {}; }
+  [[nodiscard]] static bool has_gradient_source() { return true; }
+  [[nodiscard]] Vars gradient_source(const Vars& W, const Vars& gx, const Vars& gy) const {
+    return linear_detail::powell_source(W, gx, gy, VX, BX, ideal().mu0);
+  }
 
   [[nodiscard]] Vars scales(const Vars& W0) const {
     const LinearForm<Mhd> mhd{ideal(), rho_ref};

@@ -7,23 +7,36 @@
 /// equations of each model by hand, each model describes itself once, in three dimensions
 /// (d/dz = 0), as balance laws for a state W of n primitive variables:
 ///
-///   dU/dt + d_x [F_x(W) + H_x(W, grad W)] + d_y [F_y(W) + H_y(W, grad W)] = S(W),
+///   dU/dt + d_x [F_x(W) + H_x(W, grad W)] + d_y [F_y(W) + H_y(W, grad W)] = S(W) + Q(W, grad W),
 ///   U = C(W) - d_x P_x(W, grad W) - d_y P_y(W, grad W),
 ///
 /// with the ideal fluxes F_d, the gradient fluxes H_d (resistivity, viscosity, the Hall
 /// and electron-pressure electric field, the electron drift of adiabatic electrons), the
-/// local sources S (Lorentz force, currents, friction) and the generalised conserved
+/// local sources S (Lorentz force, currents, friction), sources in the gradients Q (Powell's
+/// div B terms of the single-fluid models, below) and the generalised conserved
 /// variables C - div P (electron inertia: B' = B + curl(d_e^2 curl B)). The linearization
 /// about (W0, dW0/dx) is taken numerically by `linearize` below (fourth-order central
 /// differences; exact up to rounding for the terms of these models that are at most
 /// bilinear in the perturbed quantities, and to ~1e-12 otherwise):
 ///
 ///   M0 = dC/dW,  G_d = dF_d/dW,  K_d0 = dH_d/dW,  K_dl = dH_d/d(d_l W),
-///   N_d0 = dP_d/dW,  N_dl = dP_d/d(d_l W),  S_W = dS/dW,       d, l in {x, y},
+///   N_d0 = dP_d/dW,  N_dl = dP_d/d(d_l W),  S_W = dS/dW,
+///   Q_0 = dQ/dW,  Q_l = dQ/d(d_l W),                           d, l in {x, y},
 ///
 /// all evaluated at the background, whose gradient enters K_d0 and N_d0 (e.g. the
 /// electron pressure gradient of the Hall field). Numerical schemes (models/linear_system.*)
 /// and the dispersion relation (models/dispersion.*) use only these matrices.
+///
+/// div B: with k_perp, B_x is a variable and div B = d_x B_x + i k_perp B_y must stay zero.
+/// The conservation form of the single-fluid momentum equation carries the force
+/// (div B) B/mu0, which turns any divergence (a one-dimensional initial state with k_perp,
+/// the truncation error of an end) into a secularly growing flow (a Jordan block at
+/// omega = 0: measured, u_x ~ 1e5 m/s within 5 us from a 1000 m/s plate). MHD and Hall MHD
+/// therefore carry Powell's source terms, Q = -(div B)(0, B/mu0, u, 0) (Powell, Roe, Linde,
+/// Gombosi & De Zeeuw 1999, J. Comput. Phys. 154, 284 — from memory): the momentum then
+/// sees the Lorentz force (curl B) x B/mu0 and a divergence is carried with the flow instead
+/// of growing. The two-fluid model has the Lorentz force as a source and Faraday's law in
+/// curl form, and needs none.
 ///
 /// Thermal variables: the linear balance laws use an entropy-like conserved variable,
 /// S_s = p_s (rho_ref/rho_s)^(gamma-1) (conserved by adiabatic flow), or, for an
@@ -50,7 +63,9 @@
 ///   Vars gradient_flux(const Vars& W, const Vars& gx, const Vars& gy, int d) const;  H_d
 ///   Vars inertia_flux(const Vars& W, const Vars& gx, const Vars& gy, int d) const;   P_d
 ///   Vars source(const Vars& W) const;           S(W)
-///   bool has_gradient_terms() const, has_inertia() const, has_source() const;
+///   Vars gradient_source(const Vars& W, const Vars& gx, const Vars& gy) const;  Q
+///   bool has_gradient_terms() const, has_inertia() const, has_source() const,
+///        has_gradient_source() const;
 ///   Vars scales(const Vars& W0) const;          typical size of each variable (never 0)
 ///   void to_output(const Vars& w, real* out) const;  output columns of a real perturbation
 ///   static const char* gradient_limit_name();  name of the step limit of H (and P)
@@ -87,8 +102,10 @@ struct LinearCoefficients {
   std::vector<real> N0[2];       ///< dP_d/dW
   std::vector<real> N[2][2];     ///< dP_d/d(d_l W)
   std::vector<real> S;           ///< dS/dW
+  std::vector<real> Q0;          ///< dQ/dW (through the background gradient)
+  std::vector<real> Q[2];        ///< dQ/d(d_l W)
   std::vector<real> scale;       ///< typical size of each primitive variable (for balancing eigen-solves)
-  [[nodiscard]] bool gradient() const { return !K[0][0].empty(); }
+  [[nodiscard]] bool gradient() const { return !K[0][0].empty() || !Q[0].empty(); }
   [[nodiscard]] bool inertia() const { return !N[0][0].empty(); }
   [[nodiscard]] bool source() const { return !S.empty(); }
 };
@@ -163,6 +180,11 @@ LinearCoefficients linearize(const Form& form, const typename Form::Vars& W0, co
     terms([&](const Vars& w, const Vars& gx, const Vars& gy, int d) { return form.inertia_flux(w, gx, gy, d); },
           c.N0, c.N);
   if (form.has_source()) c.S = jacobian<n>([&](const Vars& w) { return form.source(w); }, W0, h);
+  if (form.has_gradient_source()) {
+    c.Q0 = jacobian<n>([&](const Vars& w) { return form.gradient_source(w, dW0dx, zero); }, W0, h);
+    c.Q[0] = jacobian<n>([&](const Vars& g) { return form.gradient_source(W0, g, zero); }, dW0dx, hg);
+    c.Q[1] = jacobian<n>([&](const Vars& g) { return form.gradient_source(W0, dW0dx, g); }, zero, hg);
+  }
   return c;
 }
 

@@ -169,7 +169,8 @@ LinearSystem::LinearSystem(const LinearSystemSpec& spec)
       append(out_[f == 0 ? 0 : 1], M0.inverse() * Pu * M0);
     }
     if (gradient_) {
-      append(ga_re_, mat(c.K0[0]));
+      // Q_x d_x w = d_x(Q_x w) - (d_x Q_x) w: the first part as the face flux -Q_x w.
+      append(ga_re_, mat(c.K0[0]) - mat(c.Q[0]));
       append(ga_im_, k * (mat(c.K[0][1]) + mat(c.K[1][0])));
       append(gd_, mat(c.K[0][0]) / dx);
     }
@@ -199,6 +200,10 @@ LinearSystem::LinearSystem(const LinearSystemSpec& spec)
       }
       Eigen::EigenSolver<Mat> es(mat(c.G[1]) * M0i, false);
       for (int j = 0; j < n; ++j) s_y = std::max(s_y, std::abs(es.eigenvalues()(j)));
+    }
+    if (!c.Q0.empty() || !c.Q[0].empty()) {
+      Lre += mat(c.Q0) - (mat(fr.Q[0]) - mat(fl.Q[0])) / dx;
+      Lim += k * mat(c.Q[1]);
     }
     if (c.source()) {
       const Mat SU = mat(c.S) * M0i;

@@ -13,8 +13,9 @@
 ///   F_f = G+_f w_L + G-_f w_R                  exact upwind flux of the ideal part (below)
 ///   H_f = A_f (w_{f-1} + w_f)/2 + D_f (w_f - w_{f-1})   gradient terms across the face:
 ///         A = K_x0 + i k (K_xy + K_yx),  D = K_xx/dx
-///   L_i = -i k (G_y + K_y0) + k^2 K_yy + i k dK_yx/dx [+ S]   the k_perp terms (and a
-///         non-stiff source), local to the cell: explicit, in the Runge-Kutta stages
+///   L_i = -i k (G_y + K_y0) + k^2 K_yy + i k dK_yx/dx + Q_0 + i k Q_y - dQ_x/dx [+ S]
+///         the k_perp terms, Powell's terms (with the face flux -Q_x w in A) and a non-stiff
+///         source, local to the cell: explicit, in the Runge-Kutta stages
 ///
 /// A stiff source (two-fluid: plasma and cyclotron frequencies) is integrated by the
 /// implicit midpoint rule per cell, Strang split around the stages, and then the k_perp

@@ -14,6 +14,7 @@
 ///          S u_d)
 ///   H_d(B_i) = eps_idk E'_k,  E' = eta J,  J = curl B / mu0        (resistivity)
 ///   H_d(m_i) = -rho nu (d_d u_i + d_i u_d - (2/3) delta_di div u)  (viscosity)
+///   Q = -(div B)(0, B/mu0, u, 0)                                   (Powell; see linear_form.hpp)
 ///
 /// The x components reproduce Mhd::flux and Mhd::gradient_flux (the energy equation
 /// replaced by the entropy-like S, see linear_form.hpp); eps = 1/(mu0 c^2) is the
@@ -76,6 +77,20 @@ void add_field_flux(const std::array<real, 3>& E, int b, int d, V& H) {
     for (int k = 0; k < 3; ++k) H[b + i] += levi_civita(i, d, k) * E[k];
 }
 
+/// Powell's div B source, -(div B)(B/mu0 in the momentum, u in the induction)
+/// (linear_form.hpp): the momentum then feels the Lorentz force, not the (div B) B force of
+/// the conservation form.
+template <class V>
+V powell_source(const V& W, const V& gx, const V& gy, int v, int b, real mu0) {
+  V Q{};
+  const real div_b = gx[b] + gy[b + 1];
+  for (int i = 0; i < 3; ++i) {
+    Q[v + i] = -div_b * W[b + i] / mu0;
+    Q[b + i] = -div_b * W[v + i];
+  }
+  return Q;
+}
+
 /// Navier-Stokes viscous momentum flux of kinematic viscosity nu at density rho.
 template <class V>
 void add_viscous_flux(real rho_nu, const V& gx, const V& gy, int v, int d, V& H) {
@@ -132,6 +147,10 @@ struct LinearForm<Mhd> {
   [[nodiscard]] Vars inertia_flux(const Vars&, const Vars&, const Vars&, int) const { return {}; }
   [[nodiscard]] static bool has_source() { return false; }
   [[nodiscard]] Vars source(const Vars&) const { return {}; }
+  [[nodiscard]] static bool has_gradient_source() { return true; }
+  [[nodiscard]] Vars gradient_source(const Vars& W, const Vars& gx, const Vars& gy) const {
+    return linear_detail::powell_source(W, gx, gy, VX, BX, model.mu0);
+  }
 
   [[nodiscard]] Vars scales(const Vars& W0) const {
     const real rho = W0[RHO];

@@ -83,6 +83,8 @@ struct LinearForm<TwoFluid> {
   [[nodiscard]] Vars gradient_flux(const Vars&, const Vars&, const Vars&, int) const { return {}; }
   [[nodiscard]] static bool has_inertia() { return false; }
   [[nodiscard]] Vars inertia_flux(const Vars&, const Vars&, const Vars&, int) const { return {}; }
+  [[nodiscard]] static bool has_gradient_source() { return false; }
+  [[nodiscard]] Vars gradient_source(const Vars&, const Vars&, const Vars&) const { return {}; }
   [[nodiscard]] static bool has_source() { return true; }
   [[nodiscard]] Vars source(const Vars& W) const {
     using linear_detail::cross;

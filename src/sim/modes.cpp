@@ -53,6 +53,7 @@ ModesSetup modes_setup(const io::RunFile& rf, std::optional<real> x, std::option
   s.equations = rf.get_string("model.equations");
   s.x = x.value_or(c.grid.x_min);
   s.field_angle_deg = c.plasma.field_angle_deg;
+  s.normalized = c.units.normalized;
   real kp = 0;
   if (k_perp) kp = *k_perp;
   else if (rf.get_string("model.form") == "linearized") kp = rf.get_real("model.perpendicular_wavenumber");

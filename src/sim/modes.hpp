@@ -31,6 +31,7 @@ struct ModesSetup {
   PlasmaInput plasma_input;               ///< n_e, B, masses, temperatures at x (SI runs)
   real x = 0;                             ///< where along the tube [m]
   real field_angle_deg = 0;
+  bool normalized = false;                ///< the run's code units (lengths, times as typed)
 };
 
 /// The setup at position x (default: x_min) with perpendicular wavenumber k_perp (default:
