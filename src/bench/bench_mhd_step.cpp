@@ -1,7 +1,9 @@
 // Benchmark (not a test): cell-updates per second of the nonlinear MHD step.
 //
-//   ./build/src/bench_mhd_step [--repeat R] [--steps S]
+//   ./build/src/bench_mhd_step [--repeat R] [--steps S] [--cells N] [--threads T]
 //
+// --cells and --threads restrict the run to one size and one thread count (for profiling,
+// e.g. under valgrind --tool=callgrind, whose instruction counts are deterministic).
 // Problem: a periodic box holding a large-amplitude oblique fast wave (relative amplitude
 // 0.1, B at 30 degrees), so HLLD takes its full path with every state populated. Scheme:
 // PLM (MC limiter) + HLLD + SSP-RK2, CFL 0.8. A cell-update is one cell advanced by one
@@ -62,20 +64,25 @@ double run_once(int n, int steps) {
 }  // namespace
 
 int main(int argc, char** argv) {
-  int repeat = 5, steps = 0;
+  int repeat = 5, steps = 0, only_cells = 0, only_threads = 0;
   for (int a = 1; a + 1 < argc; a += 2) {
     if (std::strcmp(argv[a], "--repeat") == 0) repeat = std::atoi(argv[a + 1]);
     if (std::strcmp(argv[a], "--steps") == 0) steps = std::atoi(argv[a + 1]);
+    if (std::strcmp(argv[a], "--cells") == 0) only_cells = std::atoi(argv[a + 1]);
+    if (std::strcmp(argv[a], "--threads") == 0) only_threads = std::atoi(argv[a + 1]);
   }
   const int all = omp_get_max_threads();
   std::vector<int> threads{1};
   if (all > 1) threads.push_back(all);
+  if (only_threads > 0) threads = {only_threads};
+  std::vector<int> sizes{4096, 65536};
+  if (only_cells > 0) sizes = {only_cells};
   std::printf("{\n  \"benchmark\": \"nonlinear MHD step, PLM(MC) + HLLD + SSP-RK2\",\n");
   std::printf("  \"tubewave_version\": \"%s\", \"git\": \"%s\", \"compiler\": \"%s\", \"build_type\": \"%s\",\n",
               build::version, build::git_revision, build::compiler, build::build_type);
   std::printf("  \"results\": [\n");
   bool first = true;
-  for (int n : {4096, 65536}) {
+  for (int n : sizes) {
     const int s = steps > 0 ? steps : (n <= 4096 ? 400 : 40);
     for (int th : threads) {
       omp_set_num_threads(th);

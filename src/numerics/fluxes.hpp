@@ -10,17 +10,12 @@
 #include <type_traits>
 #include <vector>
 
+#include "numerics/flux_kind.hpp"
 #include "numerics/hlld.hpp"
+#include "numerics/mhd_face_kernel.hpp"
 #include "numerics/riemann.hpp"
 
 namespace tw {
-
-enum class FluxKind { rusanov, hll, hlld, upwind };
-
-inline const std::vector<std::string>& flux_names() {
-  static const std::vector<std::string> n{"rusanov", "hll", "hlld", "upwind"};
-  return n;
-}
 
 /// Solver type for model M and flux kind K; specialise for model-specific solvers.
 template <class M, FluxKind K>
@@ -42,6 +37,23 @@ struct FluxFor<Mhd, FluxKind::hlld> {
 
 template <class M, FluxKind K>
 using flux_type_t = typename FluxFor<M, K>::type;
+
+/// Optional fused face kernel for model M: reconstruction and numerical flux over a range
+/// of faces in one blocked, vectorised pass (see numerics/mhd_face_kernel.hpp for the
+/// contract). `void` (the default) means the operator uses its generic passes. The
+/// kernel must reproduce the generic passes bitwise for every scheme it `supports()`;
+/// for any other scheme the operator falls back to the generic passes.
+template <class M>
+struct FaceKernelFor {
+  using type = void;
+};
+template <>
+struct FaceKernelFor<Mhd> {
+  using type = MhdFaceKernel;
+};
+
+template <class M>
+using face_kernel_t = typename FaceKernelFor<M>::type;
 
 template <class M, FluxKind K>
 inline constexpr bool flux_supported_v = !std::is_void_v<flux_type_t<M, K>>;

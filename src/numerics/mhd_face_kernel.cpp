@@ -1,0 +1,506 @@
+// The fused MHD face kernel (see mhd_face_kernel.hpp for the contract).
+//
+// Every function below that does arithmetic mirrors, expression by expression, the
+// generic code it replaces (Mhd in models/mhd.hpp, the solvers in numerics/riemann.hpp
+// and numerics/hlld.hpp, the limiters in numerics/reconstruction.hpp and the
+// reconstruction loop of FvOperator): same operands, same order, so the same rounding.
+// Branches become selects (`c ? a : b` on values computed unconditionally), which lets
+// GCC vectorise the loops over the faces of a block. Quantities of the wave regions a face
+// does not use are computed too and discarded (they may be infinite or NaN there; nothing
+// traps). If you change the generic code, change this file the same way: the
+// bitwise-equality test in tests/numerics/test_mhd_face_kernel.cpp will tell you.
+//
+// Each vectorised loop is compiled twice, for baseline x86-64 (SSE2, 2 lanes) and for
+// AVX2 (4 lanes), and the instruction set is picked at run time (core/simd_isa.hpp).
+#include "numerics/mhd_face_kernel.hpp"
+
+#include <algorithm>
+#include <cmath>
+
+#include "core/error.hpp"
+
+#if defined(__GNUC__)
+#define TW_ALWAYS_INLINE inline __attribute__((always_inline))
+#else
+#define TW_ALWAYS_INLINE inline
+#endif
+
+#if defined(__x86_64__) && (defined(__GNUC__) || defined(__clang__))
+#define TW_HAVE_AVX2_CLONES 1
+#define TW_TARGET_AVX2 __attribute__((target("avx2")))
+#else
+#define TW_HAVE_AVX2_CLONES 0
+#endif
+
+namespace tw {
+
+namespace {
+
+constexpr int NV = Mhd::n_vars;
+constexpr int BF = MhdFaceKernel::block_faces;
+constexpr int RHO = Mhd::RHO, VX = Mhd::VX, VY = Mhd::VY, VZ = Mhd::VZ, BY = Mhd::BY,
+              BZ = Mhd::BZ, P = Mhd::P;
+
+/// Scratch of one block, one array per variable (structure of arrays).
+struct Block {
+  /// Cell values of cells f_begin-2 .. f_end (index = cell - (f_begin - 2)).
+  alignas(64) real w[NV][BF + 3];
+  /// Left state of face f_begin + j (the upper face value of cell f_begin - 1 + j).
+  alignas(64) real wl[NV][BF + 1];
+  /// Lower face value of cell f_begin - 1 + j: the right state of face f_begin + j - 1.
+  alignas(64) real wr[NV][BF + 1];
+  alignas(64) real f[NV][BF];
+  alignas(64) real speed[BF];
+};
+
+/// Model constants, computed once per call exactly as the generic code computes them.
+struct Consts {
+  // Mhd members.
+  real gamma, mu0, bx, a_iso;
+  // HlldFlux: the field in units with mu0 = 1.
+  real sqrt_mu0, inv_sqrt_mu0, bx_h, inv_gm1, sgn;
+};
+
+Consts make_consts(const Mhd& m) {
+  Consts c{};
+  c.gamma = m.gamma;
+  c.mu0 = m.mu0;
+  c.bx = m.bx;
+  c.a_iso = m.sound_speed_iso;
+  c.sqrt_mu0 = std::sqrt(m.mu0);
+  c.inv_sqrt_mu0 = 1 / c.sqrt_mu0;
+  c.bx_h = m.bx * c.inv_sqrt_mu0;
+  c.inv_gm1 = 1 / (m.gamma - 1);
+  c.sgn = c.bx_h > 0 ? 1.0 : (c.bx_h < 0 ? -1.0 : 0.0);
+  return c;
+}
+
+// ---------------------------------------------------------------------------------------
+// Reconstruction (FvOperator::recon_loop and the limiters, branch-free).
+
+TW_ALWAYS_INLINE real max0(real x) { return x < real(0) ? real(0) : x; }  // std::max(x, 0)
+
+template <Limiter L>
+TW_ALWAYS_INLINE real slope(real a, real b) {
+  if constexpr (L == Limiter::minmod) {
+    const real r = std::abs(a) < std::abs(b) ? a : b;
+    return a * b <= 0 ? real(0) : r;
+  } else if constexpr (L == Limiter::mc) {
+    const real c = 0.5 * (a + b);
+    // std::min({x, y, z}) keeps the first of equal values: x, then y if y < x, then z.
+    real m = 2 * std::abs(a);
+    const real y = 2 * std::abs(b), z = std::abs(c);
+    m = y < m ? y : m;
+    m = z < m ? z : m;
+    return a * b <= 0 ? real(0) : std::copysign(m, c);
+  } else if constexpr (L == Limiter::van_leer) {
+    const real r = 2 * a * b / (a + b);
+    return a * b <= 0 ? real(0) : r;
+  } else {
+    return 0.5 * (a + b);
+  }
+}
+
+/// Transposes the cells a block needs into b.w.
+TW_ALWAYS_INLINE void load_cells(const real* W, int f0, int nf, Block& b) {
+  const real* src = W + static_cast<long>(f0 - 2) * NV;
+  for (int j = 0; j < nf + 3; ++j)
+    for (int k = 0; k < NV; ++k) b.w[k][j] = src[j * NV + k];
+}
+
+/// Face values of cells f0-1 .. f0+nf-1 into b.wl (upper) and b.wr (lower).
+template <int Order, Limiter L>
+TW_ALWAYS_INLINE void reconstruct(Block& b, int nf) {
+  for (int j = 0; j <= nf; ++j) {
+    real lo[NV], hi[NV], c[NV];
+#pragma GCC unroll 7
+    for (int k = 0; k < NV; ++k) {
+      c[k] = b.w[k][j + 1];
+      if constexpr (Order == 0) {
+        lo[k] = c[k];
+        hi[k] = c[k];
+      } else {
+        const real s = 0.5 * slope<L>(c[k] - b.w[k][j], b.w[k][j + 2] - c[k]);
+        lo[k] = c[k] - s;
+        hi[k] = c[k] + s;
+      }
+    }
+    if constexpr (Order > 0) {
+      // Mhd::positive of both face values, else first order in this cell.
+      const bool ok = (lo[RHO] > 0) & (lo[P] > 0) & (hi[RHO] > 0) & (hi[P] > 0);
+#pragma GCC unroll 7
+      for (int k = 0; k < NV; ++k) {
+        lo[k] = ok ? lo[k] : c[k];
+        hi[k] = ok ? hi[k] : c[k];
+      }
+    }
+#pragma GCC unroll 7
+    for (int k = 0; k < NV; ++k) {
+      b.wl[k][j] = hi[k];
+      b.wr[k][j] = lo[k];
+    }
+  }
+}
+
+template <int Order, Limiter L>
+void reconstruct_baseline(const real* W, int f0, int nf, Block& b) {
+  load_cells(W, f0, nf, b);
+  reconstruct<Order, L>(b, nf);
+}
+#if TW_HAVE_AVX2_CLONES
+template <int Order, Limiter L>
+TW_TARGET_AVX2 void reconstruct_avx2(const real* W, int f0, int nf, Block& b) {
+  load_cells(W, f0, nf, b);
+  reconstruct<Order, L>(b, nf);
+}
+#endif
+
+// ---------------------------------------------------------------------------------------
+// HLLD (HlldFlux::operator(), branch-free).
+
+struct HSide {
+  real rho, u, v, w, by, bz, p, e, pt, vb, cf;
+};
+
+TW_ALWAYS_INLINE HSide hlld_side(const Consts& c, const real* W) {
+  const real bx = c.bx_h;
+  HSide s;
+  s.rho = W[RHO];
+  s.u = W[VX];
+  s.v = W[VY];
+  s.w = W[VZ];
+  s.by = W[BY] * c.inv_sqrt_mu0;
+  s.bz = W[BZ] * c.inv_sqrt_mu0;
+  s.p = W[P];
+  const real b2 = bx * bx + s.by * s.by + s.bz * s.bz;
+  s.e = s.p * c.inv_gm1 + 0.5 * s.rho * (s.u * s.u + s.v * s.v + s.w * s.w) + 0.5 * b2;
+  s.pt = s.p + 0.5 * b2;
+  s.vb = s.u * bx + s.v * s.by + s.w * s.bz;
+  const real inv_rho = 1 / s.rho;
+  const real a2 = c.gamma * s.p * inv_rho, va2 = b2 * inv_rho, vax2 = bx * bx * inv_rho;
+  const real sum = a2 + va2;
+  s.cf = std::sqrt(0.5 * (sum + std::sqrt(max0(sum * sum - 4 * a2 * vax2))));
+  return s;
+}
+
+/// Outer star state: the parts needed from both sides.
+struct HStar {
+  real rho, v, w, by, bz, inv_sasm;
+};
+
+TW_ALWAYS_INLINE HStar hlld_star(const Consts& c, const HSide& s, real sa, real sm) {
+  const real bx = c.bx_h;
+  HStar st;
+  const real d = s.rho * (sa - s.u);
+  st.inv_sasm = 1 / (sa - sm);
+  st.rho = d * st.inv_sasm;
+  const real den = d * (sa - sm) - bx * bx;
+  const bool degenerate = std::abs(den) <= 1e-12 * (std::abs(d * (sa - sm)) + bx * bx);
+  const real inv = 1 / den;
+  const real f = bx * (sm - s.u) * inv;
+  const real g = (d * (sa - s.u) - bx * bx) * inv;
+  st.v = degenerate ? s.v : s.v - s.by * f;
+  st.w = degenerate ? s.w : s.w - s.bz * f;
+  st.by = degenerate ? s.by : s.by * g;
+  st.bz = degenerate ? s.bz : s.bz * g;
+  return st;
+}
+
+TW_ALWAYS_INLINE real pick(bool c, real a, real b) { return c ? a : b; }
+
+TW_ALWAYS_INLINE real hlld_face(const Consts& c, const real* WL, const real* WR, real* F) {
+  const real bx = c.bx_h, sgn = c.sgn;
+  const HSide L = hlld_side(c, WL), R = hlld_side(c, WR);
+
+  const real cmax = std::max(L.cf, R.cf);
+  const real sl = std::min(L.u, R.u) - cmax;
+  const real sr = std::max(L.u, R.u) + cmax;
+  const real speed = std::max(-sl, sr);
+
+  const real dl = L.rho * (sl - L.u), dr = R.rho * (sr - R.u);
+  const real inv_ddr = 1 / (dr - dl);
+  const real sm = (dr * R.u - dl * L.u - R.pt + L.pt) * inv_ddr;
+  const real pts = (dr * L.pt - dl * R.pt + dl * dr * (R.u - L.u)) * inv_ddr;
+
+  const HStar Ls = hlld_star(c, L, sl, sm), Rs = hlld_star(c, R, sr, sm);
+  const real sql = std::sqrt(Ls.rho), sqr = std::sqrt(Rs.rho);
+  const real sls = sm - std::abs(bx) / sql;
+  const real srs = sm + std::abs(bx) / sqr;
+
+  // Which region the face lies in, tested in the generic solver's order.
+  const bool outer_l = sl >= 0;
+  const bool outer_r = !outer_l & (sr <= 0);
+  const bool outer = outer_l | outer_r;
+  const bool star_l = !outer & (sls >= 0);
+  const bool star_r = !outer & !star_l & (srs <= 0);
+  const bool star = star_l | star_r;
+  const bool dbl = !outer & !star;
+  const bool left = outer_l | star_l | (dbl & (sm >= 0));
+
+  // Inner (double-star) states, eqs. (59)-(63) of Miyoshi & Kusano (2005).
+  const real isum = 1 / (sql + sqr);
+  const real v2 = (sql * Ls.v + sqr * Rs.v + (Rs.by - Ls.by) * sgn) * isum;
+  const real w2 = (sql * Ls.w + sqr * Rs.w + (Rs.bz - Ls.bz) * sgn) * isum;
+  const real by2 = (sql * Rs.by + sqr * Ls.by + sql * sqr * (Rs.v - Ls.v) * sgn) * isum;
+  const real bz2 = (sql * Rs.bz + sqr * Ls.bz + sql * sqr * (Rs.w - Ls.w) * sgn) * isum;
+  const real vb2 = sm * bx + v2 * by2 + w2 * bz2;
+
+  // From here on only the side the face lies on.
+  HSide s;
+  s.rho = pick(left, L.rho, R.rho);
+  s.u = pick(left, L.u, R.u);
+  s.v = pick(left, L.v, R.v);
+  s.w = pick(left, L.w, R.w);
+  s.by = pick(left, L.by, R.by);
+  s.bz = pick(left, L.bz, R.bz);
+  s.e = pick(left, L.e, R.e);
+  s.pt = pick(left, L.pt, R.pt);
+  s.vb = pick(left, L.vb, R.vb);
+  HStar st;
+  st.rho = pick(left, Ls.rho, Rs.rho);
+  st.v = pick(left, Ls.v, Rs.v);
+  st.w = pick(left, Ls.w, Rs.w);
+  st.by = pick(left, Ls.by, Rs.by);
+  st.bz = pick(left, Ls.bz, Rs.bz);
+  st.inv_sasm = pick(left, Ls.inv_sasm, Rs.inv_sasm);
+  const real sa = pick(left, sl, sr);    // outer wave
+  const real ss = pick(left, sls, srs);  // Alfvén wave
+  const real sq = pick(left, sql, sqr);
+
+  // Energy of the outer star state, eq. (48).
+  const real st_vb = sm * bx + st.v * st.by + st.w * st.bz;
+  const real st_e = ((sa - s.u) * s.e - s.pt * s.u + pts * sm + bx * (s.vb - st_vb)) * st.inv_sasm;
+  // Energy of the inner state, eq. (63): minus on the left, plus on the right.
+  const real de = sq * (st_vb - vb2) * sgn;
+  const real e2 = left ? st_e - de : st_e + de;
+
+  const real Fs[NV] = {s.rho * s.u,
+                       s.rho * s.u * s.u + s.pt - bx * bx,
+                       s.rho * s.u * s.v - bx * s.by,
+                       s.rho * s.u * s.w - bx * s.bz,
+                       s.by * s.u - bx * s.v,
+                       s.bz * s.u - bx * s.w,
+                       (s.e + s.pt) * s.u - bx * s.vb};
+  const real Us[NV] = {s.rho, s.rho * s.u, s.rho * s.v, s.rho * s.w, s.by, s.bz, s.e};
+  const real Ust[NV] = {st.rho, st.rho * sm, st.rho * st.v, st.rho * st.w, st.by, st.bz, st_e};
+  const real U2[NV] = {st.rho, st.rho * sm, st.rho * v2, st.rho * w2, by2, bz2, e2};
+#pragma GCC unroll 7
+  for (int k = 0; k < NV; ++k) {
+    const real f_star = Fs[k] + sa * (Ust[k] - Us[k]);
+    const real f_dbl = Fs[k] + ss * U2[k] - (ss - sa) * Ust[k] - sa * Us[k];
+    F[k] = outer ? Fs[k] : (star ? f_star : f_dbl);
+  }
+  F[BY] *= c.sqrt_mu0;
+  F[BZ] *= c.sqrt_mu0;
+  return speed;
+}
+
+// ---------------------------------------------------------------------------------------
+// HLL and Rusanov with the Mhd model functions (riemann.hpp, branch-free).
+
+struct GSide {
+  real smin, smax;  // signal_speeds
+  real F[NV];       // flux
+  real U[NV];       // cons_from_prim
+};
+
+template <bool Adiabatic>
+TW_ALWAYS_INLINE GSide generic_side(const Consts& c, const real* W) {
+  const real bx = c.bx, mu0 = c.mu0;
+  const real rho = W[RHO], u = W[VX], v = W[VY], w = W[VZ], by = W[BY], bz = W[BZ];
+  GSide s;
+  // Mhd::fast_speed
+  const real a2 = Adiabatic ? c.gamma * W[P] / W[RHO] : c.a_iso * c.a_iso;
+  const real inv = 1 / (mu0 * W[RHO]);
+  const real b2 = (bx * bx + W[BY] * W[BY] + W[BZ] * W[BZ]) * inv;
+  const real bx2 = bx * bx * inv;
+  const real sum = a2 + b2;
+  const real cf = std::sqrt(0.5 * (sum + std::sqrt(max0(sum * sum - 4 * a2 * bx2))));
+  s.smin = W[VX] - cf;
+  s.smax = W[VX] + cf;
+  // Mhd::flux and Mhd::cons_from_prim (magnetic_energy and total_energy inlined).
+  const real inv_mu0 = 1 / mu0;
+  const real pmag = (bx * bx + by * by + bz * bz) / (2 * mu0);
+  const real ptot = W[P] + pmag;
+  const real e = W[P] / (c.gamma - 1) + 0.5 * W[RHO] * (W[VX] * W[VX] + W[VY] * W[VY] + W[VZ] * W[VZ]) +
+                 (bx * bx + W[BY] * W[BY] + W[BZ] * W[BZ]) / (2 * mu0);
+  s.F[RHO] = rho * u;
+  s.F[VX] = rho * u * u + ptot - bx * bx * inv_mu0;
+  s.F[VY] = rho * u * v - bx * by * inv_mu0;
+  s.F[VZ] = rho * u * w - bx * bz * inv_mu0;
+  s.F[BY] = by * u - bx * v;
+  s.F[BZ] = bz * u - bx * w;
+  s.F[P] = Adiabatic ? (e + ptot) * u - bx * (u * bx + v * by + w * bz) * inv_mu0 : real(0);
+  s.U[RHO] = rho;
+  s.U[VX] = rho * W[VX];
+  s.U[VY] = rho * W[VY];
+  s.U[VZ] = rho * W[VZ];
+  s.U[BY] = W[BY];
+  s.U[BZ] = W[BZ];
+  s.U[P] = Adiabatic ? e : real(0);
+  return s;
+}
+
+template <bool Adiabatic>
+TW_ALWAYS_INLINE real hll_face(const Consts& c, const real* WL, const real* WR, real* F) {
+  const GSide a = generic_side<Adiabatic>(c, WL), b = generic_side<Adiabatic>(c, WR);
+  const real sl = std::min(a.smin, b.smin), sr = std::max(a.smax, b.smax);
+  const real speed = std::max(-sl, sr);
+  const real inv = 1 / (sr - sl);
+#pragma GCC unroll 7
+  for (int k = 0; k < NV; ++k) {
+    const real mid = (sr * a.F[k] - sl * b.F[k] + sl * sr * (b.U[k] - a.U[k])) * inv;
+    F[k] = sl >= 0 ? a.F[k] : (sr <= 0 ? b.F[k] : mid);
+  }
+  return speed;
+}
+
+template <bool Adiabatic>
+TW_ALWAYS_INLINE real rusanov_face(const Consts& c, const real* WL, const real* WR, real* F) {
+  const GSide a = generic_side<Adiabatic>(c, WL), b = generic_side<Adiabatic>(c, WR);
+  // SpeedRange::abs_max of each side, then the larger.
+  const real s = std::max(std::max(-a.smin, a.smax), std::max(-b.smin, b.smax));
+#pragma GCC unroll 7
+  for (int k = 0; k < NV; ++k) F[k] = 0.5 * (a.F[k] + b.F[k]) - 0.5 * s * (b.U[k] - a.U[k]);
+  return s;
+}
+
+// ---------------------------------------------------------------------------------------
+// Flux over a block: face j has left state b.wl[.][j] and right state b.wr[.][j + 1].
+
+template <FluxKind K, bool Adiabatic>
+TW_ALWAYS_INLINE void block_fluxes(const Consts& c, Block& b, int nf) {
+  for (int j = 0; j < nf; ++j) {
+    real wl[NV], wr[NV], f[NV];
+#pragma GCC unroll 7
+    for (int k = 0; k < NV; ++k) {
+      wl[k] = b.wl[k][j];
+      wr[k] = b.wr[k][j + 1];
+    }
+    real s;
+    if constexpr (K == FluxKind::hlld) s = hlld_face(c, wl, wr, f);
+    else if constexpr (K == FluxKind::hll) s = hll_face<Adiabatic>(c, wl, wr, f);
+    else s = rusanov_face<Adiabatic>(c, wl, wr, f);
+#pragma GCC unroll 7
+    for (int k = 0; k < NV; ++k) b.f[k][j] = f[k];
+    b.speed[j] = s;
+  }
+}
+
+template <FluxKind K, bool Adiabatic>
+void fluxes_baseline(const Consts& c, Block& b, int nf) {
+  block_fluxes<K, Adiabatic>(c, b, nf);
+}
+#if TW_HAVE_AVX2_CLONES
+template <FluxKind K, bool Adiabatic>
+TW_TARGET_AVX2 void fluxes_avx2(const Consts& c, Block& b, int nf) {
+  block_fluxes<K, Adiabatic>(c, b, nf);
+}
+#endif
+
+// ---------------------------------------------------------------------------------------
+// Dispatch.
+
+using ReconFn = void (*)(const real*, int, int, Block&);
+using FluxFn = void (*)(const Consts&, Block&, int);
+
+template <int Order, Limiter L>
+ReconFn recon_fn(SimdIsa isa) {
+#if TW_HAVE_AVX2_CLONES
+  if (isa == SimdIsa::avx2) return &reconstruct_avx2<Order, L>;
+#endif
+  (void)isa;
+  return &reconstruct_baseline<Order, L>;
+}
+
+ReconFn pick_recon(Reconstruction r, Limiter l, SimdIsa isa) {
+  if (r == Reconstruction::first_order) return recon_fn<0, Limiter::none>(isa);
+  switch (l) {
+    case Limiter::minmod: return recon_fn<1, Limiter::minmod>(isa);
+    case Limiter::mc: return recon_fn<1, Limiter::mc>(isa);
+    case Limiter::van_leer: return recon_fn<1, Limiter::van_leer>(isa);
+    case Limiter::none: return recon_fn<1, Limiter::none>(isa);
+  }
+  return nullptr;
+}
+
+template <FluxKind K, bool Adiabatic>
+FluxFn flux_fn(SimdIsa isa) {
+#if TW_HAVE_AVX2_CLONES
+  if (isa == SimdIsa::avx2) return &fluxes_avx2<K, Adiabatic>;
+#endif
+  (void)isa;
+  return &fluxes_baseline<K, Adiabatic>;
+}
+
+FluxFn pick_flux(FluxKind k, bool adiabatic, SimdIsa isa) {
+  switch (k) {
+    case FluxKind::hlld: return adiabatic ? flux_fn<FluxKind::hlld, true>(isa) : nullptr;
+    case FluxKind::hll:
+      return adiabatic ? flux_fn<FluxKind::hll, true>(isa) : flux_fn<FluxKind::hll, false>(isa);
+    case FluxKind::rusanov:
+      return adiabatic ? flux_fn<FluxKind::rusanov, true>(isa) : flux_fn<FluxKind::rusanov, false>(isa);
+    case FluxKind::upwind: break;
+  }
+  return nullptr;
+}
+
+}  // namespace
+
+bool MhdFaceKernel::supports(const Mhd& m, Reconstruction r, Limiter /*l*/, FluxKind k) {
+  if (r == Reconstruction::weno5) return false;
+  switch (k) {
+    case FluxKind::hlld: return m.closure == Closure::adiabatic;
+    case FluxKind::hll:
+    case FluxKind::rusanov: return true;
+    case FluxKind::upwind: return false;
+  }
+  return false;
+}
+
+real MhdFaceKernel::faces(const Mhd& m, Reconstruction r, Limiter l, FluxKind k, const Mhd::State* W,
+                          int f_begin, int f_end, Mhd::State* F) {
+  TW_ASSERT(supports(m, r, l, k), "scheme not supported by the fused kernel");
+  const SimdIsa isa = simd_isa();
+  const ReconFn recon = pick_recon(r, l, isa);
+  const FluxFn flux = pick_flux(k, m.closure == Closure::adiabatic, isa);
+  const Consts c = make_consts(m);
+  const real* w = W[0].data();
+  real smax = 0;
+  Block b;
+  for (int f0 = f_begin; f0 < f_end; f0 += BF) {
+    const int nf = std::min(BF, f_end - f0);
+    recon(w, f0, nf, b);
+    flux(c, b, nf);
+    for (int j = 0; j < nf; ++j) {
+      real* out = F[f0 + j].data();
+#pragma GCC unroll 7
+      for (int q = 0; q < NV; ++q) out[q] = b.f[q][j];
+      smax = std::max(smax, b.speed[j]);
+    }
+  }
+  return smax;
+}
+
+void MhdFaceKernel::fluxes(const Mhd& m, FluxKind k, int n, const Mhd::State* WL,
+                           const Mhd::State* WR, Mhd::State* F, real* speed) {
+  const FluxFn flux = pick_flux(k, m.closure == Closure::adiabatic, simd_isa());
+  TW_CHECK(flux != nullptr, "flux kind has no fused kernel");
+  const Consts c = make_consts(m);
+  Block b;
+  for (int i0 = 0; i0 < n; i0 += BF) {
+    const int nf = std::min(BF, n - i0);
+    for (int j = 0; j < nf; ++j)
+      for (int q = 0; q < NV; ++q) {
+        b.wl[q][j] = WL[i0 + j][static_cast<std::size_t>(q)];
+        b.wr[q][j + 1] = WR[i0 + j][static_cast<std::size_t>(q)];
+      }
+    flux(c, b, nf);
+    for (int j = 0; j < nf; ++j) {
+      for (int q = 0; q < NV; ++q) F[i0 + j][static_cast<std::size_t>(q)] = b.f[q][j];
+      speed[i0 + j] = b.speed[j];
+    }
+  }
+}
+
+}  // namespace tw
