@@ -1,6 +1,6 @@
 #pragma once
 /// Which vector instruction set the hand-blocked kernels use (see
-/// numerics/mhd_face_kernel.hpp). The default build targets baseline x86-64 (SSE2), so its
+/// numerics/mhd_block_kernel.hpp). The default build targets baseline x86-64 (SSE2), so its
 /// binaries run anywhere; kernels that profit from wider vectors are also compiled for
 /// AVX2 and chosen at run time when the processor has it.
 ///
@@ -9,9 +9,12 @@
 /// operations in the same order as the scalar code (a test checks this bitwise).
 namespace tw {
 
-enum class SimdIsa { baseline, avx2 };
+enum class SimdIsa { baseline, avx2, avx512 };
 
-/// Name for logs and benchmark output ("x86-64" or "avx2").
+/// Every instruction set, narrowest first.
+inline constexpr SimdIsa all_simd_isas[] = {SimdIsa::baseline, SimdIsa::avx2, SimdIsa::avx512};
+
+/// Name for logs and benchmark output ("x86-64", "avx2", "avx512").
 const char* simd_isa_name(SimdIsa isa);
 
 /// True when this processor (and this build) can run kernels compiled for `isa`.

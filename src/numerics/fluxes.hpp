@@ -12,7 +12,7 @@
 
 #include "numerics/flux_kind.hpp"
 #include "numerics/hlld.hpp"
-#include "numerics/mhd_face_kernel.hpp"
+#include "numerics/mhd_block_kernel.hpp"
 #include "numerics/riemann.hpp"
 
 namespace tw {
@@ -39,21 +39,21 @@ template <class M, FluxKind K>
 using flux_type_t = typename FluxFor<M, K>::type;
 
 /// Optional fused face kernel for model M: reconstruction and numerical flux over a range
-/// of faces in one blocked, vectorised pass (see numerics/mhd_face_kernel.hpp for the
+/// of faces in one blocked, vectorised pass (see numerics/mhd_block_kernel.hpp for the
 /// contract). `void` (the default) means the operator uses its generic passes. The
 /// kernel must reproduce the generic passes bitwise for every scheme it `supports()`;
 /// for any other scheme the operator falls back to the generic passes.
 template <class M>
-struct FaceKernelFor {
+struct BlockKernelFor {
   using type = void;
 };
 template <>
-struct FaceKernelFor<Mhd> {
-  using type = MhdFaceKernel;
+struct BlockKernelFor<Mhd> {
+  using type = MhdBlockKernel;
 };
 
 template <class M>
-using face_kernel_t = typename FaceKernelFor<M>::type;
+using block_kernel_t = typename BlockKernelFor<M>::type;
 
 template <class M, FluxKind K>
 inline constexpr bool flux_supported_v = !std::is_void_v<flux_type_t<M, K>>;

@@ -10,9 +10,9 @@
 ///   3. reconstruction of the two face values of each cell;
 ///   4. numerical flux at each face, plus the model's gradient flux;
 ///   5. flux difference plus sources.
-/// When the model registers a fused face kernel (FaceKernelFor<M>, numerics/fluxes.hpp)
+/// When the model registers a fused face kernel (BlockKernelFor<M>, numerics/fluxes.hpp)
 /// that supports the scheme, passes 3 and 4 run as that kernel over blocks of faces
-/// instead; it gives bitwise the same fluxes, only faster (set_face_kernel(false) forces
+/// instead; it gives bitwise the same fluxes, only faster (set_block_kernel(false) forces
 /// the generic passes, for comparisons).
 /// No pass has an order-dependent floating-point reduction (max and min are exact), so
 /// results are bitwise identical for any thread count.
@@ -27,6 +27,7 @@
 
 #include "core/error.hpp"
 #include "core/parallel.hpp"
+#include "core/simd_loops.hpp"
 #include "drive/boundary.hpp"
 #include "grid/grid.hpp"
 #include "models/model.hpp"
@@ -77,16 +78,18 @@ class FvOperator {
         W_(grid), Wm_(grid), Wp_(grid), F_(static_cast<std::size_t>(grid.n_cells + 1)) {
     TW_CHECK(left_ && right_, "both boundaries must be set");
     TW_CHECK(flux_supported<M>(scheme.flux), "flux not available for this model");
+    if constexpr (HasBlockKernel)
+      columns_.resize(static_cast<std::size_t>(BlockKernel::columns_size(grid.n_total())));
   }
 
   /// Use the model's fused face kernel where it supports the scheme (the default), or
   /// force the generic reconstruction and flux passes (false).
-  void set_face_kernel(bool on) { use_face_kernel_ = on; }
+  void set_block_kernel(bool on) { use_block_kernel_ = on; }
   /// True when evaluate() with model m runs the fused face kernel.
-  [[nodiscard]] bool face_kernel_active(const M& m) const {
-    if constexpr (HasFaceKernel) {
-      return use_face_kernel_ &&
-             FaceKernel::supports(m, scheme_.reconstruction, scheme_.limiter, scheme_.flux);
+  [[nodiscard]] bool block_kernel_active(const M& m) const {
+    if constexpr (HasBlockKernel) {
+      return use_block_kernel_ &&
+             BlockKernel::supports(m, scheme_.reconstruction, scheme_.limiter, scheme_.flux);
     } else {
       (void)m;
       return false;
@@ -110,19 +113,24 @@ class FvOperator {
     int bad = std::numeric_limits<int>::max();
     real smax = 0;
     std::vector<StepLimits> thread_limits;
-    const bool fused = face_kernel_active(m);
+    const bool fused = block_kernel_active(m);
 
 #pragma omp parallel if (run_parallel(n))
     {
+      if (use_block_kernel_) {
+        primitives_pass_blocked(m, U, bad);
+      } else {
 #pragma omp for schedule(static) reduction(min : bad)
-      for (int i = 0; i < n; ++i) {
-        W_[i] = m.prim_from_cons(U[i]);
-        if (!m.admissible(W_[i])) bad = std::min(bad, i);
+        for (int i = 0; i < n; ++i) {
+          W_[i] = m.prim_from_cons(U[i]);
+          if (!m.admissible(W_[i])) bad = std::min(bad, i);
+        }
       }
 #pragma omp single
       {
         left_->fill(m, grid_, Side::left, t, W_);
         right_->fill(m, grid_, Side::right, t, W_);
+        if (use_block_kernel_) ghosts_to_columns();
       }
       if (fused) {
         fused_face_pass(m, dx, smax);
@@ -153,8 +161,12 @@ class FvOperator {
         const real* fl = F_[0].data();
         real* d = dUdt[0].data();
         const long len = static_cast<long>(n) * N;
+        const long n_chunks = (len + flat_chunk - 1) / flat_chunk;
 #pragma omp for schedule(static)
-        for (long j = 0; j < len; ++j) d[j] = -(fl[j + N] - fl[j]) * inv_dx;
+        for (long c = 0; c < n_chunks; ++c) {
+          const long j0 = c * flat_chunk;
+          simd::flux_difference(std::min(flat_chunk, len - j0), N, inv_dx, fl + j0, d + j0);
+        }
       }
       if constexpr (HasStepLimits<M>) {
         if (want_limits) {
@@ -263,19 +275,58 @@ class FvOperator {
     }
   }
 
+  /// The block kernel's copy of the primitive field, one array per variable.
+  auto columns() {
+    if constexpr (HasBlockKernel) {
+      return typename BlockKernel::Columns{columns_.data() + Grid::n_ghost, grid_.n_total()};
+    }
+  }
+
+  /// Copies the ghost cells just filled by the boundaries into the columns.
+  void ghosts_to_columns() {
+    if constexpr (HasBlockKernel) {
+      const auto cols = columns();
+      const int n = grid_.n_cells;
+      for (int g = 1; g <= Grid::n_ghost; ++g)
+        for (int c : {-g, n - 1 + g})
+          for (int k = 0; k < N; ++k) cols.data[k * cols.stride + c] = W_[c][k];
+    }
+  }
+
+  /// Pass 1 as the model's block kernel (or the generic loop if it has none).
+  void primitives_pass_blocked(const M& m, const Field<State>& U, int& bad) {
+    const int n = grid_.n_cells;
+    if constexpr (HasBlockKernel) {
+      constexpr int block = BlockKernel::block_faces;
+      const int n_blocks = (n + block - 1) / block;
+#pragma omp for schedule(static) reduction(min : bad)
+      for (int b = 0; b < n_blocks; ++b) {
+        const int i0 = b * block;
+        const int k = BlockKernel::primitives(m, &U[0], &W_[0], columns(), i0, std::min(i0 + block, n));
+        if (k >= 0) bad = std::min(bad, k);
+      }
+    } else {
+#pragma omp for schedule(static) reduction(min : bad)
+      for (int i = 0; i < n; ++i) {
+        W_[i] = m.prim_from_cons(U[i]);
+        if (!m.admissible(W_[i])) bad = std::min(bad, i);
+      }
+    }
+  }
+
   /// Passes 3 and 4 as the model's fused kernel, over whole blocks of faces, plus the
   /// gradient flux as in face_pass.
   void fused_face_pass(const M& m, real dx, real& smax) {
-    if constexpr (HasFaceKernel) {
-      constexpr int block = FaceKernel::block_faces;
+    if constexpr (HasBlockKernel) {
+      constexpr int block = BlockKernel::block_faces;
       const int n = grid_.n_cells;
       const int n_blocks = (n + 1 + block - 1) / block;
       const bool grad = gradient_active(m);
 #pragma omp for schedule(static) reduction(max : smax)
       for (int b = 0; b < n_blocks; ++b) {
         const int f0 = b * block, f1 = std::min(f0 + block, n + 1);
-        smax = std::max(smax, FaceKernel::faces(m, scheme_.reconstruction, scheme_.limiter, scheme_.flux,
-                                                &W_[0], f0, f1, F_.data()));
+        smax = std::max(smax, BlockKernel::faces(m, scheme_.reconstruction, scheme_.limiter, scheme_.flux,
+                                                columns(), f0, f1, F_.data()));
         if constexpr (HasGradientFlux<M>) {
           if (grad) {
             for (int f = f0; f < f1; ++f) {
@@ -298,16 +349,17 @@ class FvOperator {
     return false;
   }
 
-  using FaceKernel = face_kernel_t<M>;
-  static constexpr bool HasFaceKernel = !std::is_void_v<FaceKernel>;
+  using BlockKernel = block_kernel_t<M>;
+  static constexpr bool HasBlockKernel = !std::is_void_v<BlockKernel>;
 
   Grid grid_;
   SpatialScheme scheme_;
-  bool use_face_kernel_ = true;
+  bool use_block_kernel_ = true;
   std::shared_ptr<const Boundary<M>> left_, right_;
   std::vector<std::shared_ptr<const SourceTerm<M>>> sources_;
   Field<State> W_, Wm_, Wp_;
   std::vector<State> F_;
+  std::vector<real> columns_;  ///< primitive field as one array per variable (block kernel)
 };
 
 }  // namespace tw

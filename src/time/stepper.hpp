@@ -15,6 +15,7 @@
 ///   totals + net boundary inflow is conserved to round-off;
 /// - models with a stiff local source (M::stiff_source_step) get it applied by Strang
 ///   splitting: half a step before the stages and half after.
+#include <algorithm>
 #include <cmath>
 #include <sstream>
 #include <string>
@@ -22,6 +23,7 @@
 
 #include "core/error.hpp"
 #include "core/parallel.hpp"
+#include "core/simd_loops.hpp"
 #include "models/model.hpp"
 #include "numerics/fv_operator.hpp"
 #include "time/integrators.hpp"
@@ -107,14 +109,18 @@ class Stepper {
         boundary_flux_[1][k] += st.weight * dt * rep.flux_right[k];
       }
       const Field<State>& base = rk_base();
-      // The stage update on the flat storage (n_cells * N contiguous reals) vectorises.
+      // The stage update on the flat storage (n_cells * N contiguous reals), in chunks that
+      // the vectorised loop (core/simd_loops.hpp) takes one at a time.
       real* u = U[0].data();
       const real* u0 = base[0].data();
       const real* l = L_[0].data();
       const long len = static_cast<long>(n) * N;
-      const real a = st.a, b = st.b;
+      const long n_chunks = (len + flat_chunk - 1) / flat_chunk;
 #pragma omp parallel for schedule(static) if (run_parallel(n))
-      for (long j = 0; j < len; ++j) u[j] = a * u0[j] + b * (u[j] + dt * l[j]);
+      for (long c = 0; c < n_chunks; ++c) {
+        const long j0 = c * flat_chunk;
+        simd::stage_update(std::min(flat_chunk, len - j0), st.a, st.b, dt, u0 + j0, l + j0, u + j0);
+      }
     }
     if constexpr (HasStiffSource<M>) m.stiff_source_step(g, U, t + 0.5 * dt, 0.5 * dt);
     return info;

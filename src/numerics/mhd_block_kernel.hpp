@@ -24,9 +24,24 @@
 
 namespace tw {
 
-struct MhdFaceKernel {
-  /// Faces per block; the operator hands whole blocks to threads.
+struct MhdBlockKernel {
+  /// Faces (or cells) per block; the operator hands whole blocks to threads.
   static constexpr int block_faces = 64;
+
+  /// Cell values as one array per variable (structure of arrays), ghost cells included:
+  /// variable k of cell c (c >= -Grid::n_ghost) is data[k * stride + c]. The operator owns
+  /// the storage (columns_size() reals) and keeps it in step with its primitive field.
+  struct Columns {
+    real* data = nullptr;
+    long stride = 0;
+  };
+  /// Reals needed for the columns of a grid with n_total cells (ghosts included).
+  static long columns_size(long n_total) { return n_total * Mhd::n_vars; }
+
+  /// Primitive variables W[i] = m.prim_from_cons(U[i]) for the cells i in [begin, end)
+  /// (arrays indexed like Field), written to W and to the columns. Returns the first of
+  /// those cells whose state is not m.admissible, or -1. Any scheme, either closure.
+  static int primitives(const Mhd& m, const Mhd::State* U, Mhd::State* W, Columns cols, int begin, int end);
 
   /// True when the kernel reproduces the generic passes for this choice: first order or
   /// PLM (any limiter); HLLD (adiabatic closure, as the generic solver), HLL or Rusanov
@@ -34,11 +49,10 @@ struct MhdFaceKernel {
   static bool supports(const Mhd& m, Reconstruction r, Limiter l, FluxKind k);
 
   /// Numerical fluxes F[f] for the faces f in [f_begin, f_end) from the primitive cell
-  /// values W (indexed like Field: W[c] must be valid for c in f_begin-2 .. f_end, ghost
-  /// cells included). Returns the largest |signal speed| of those faces (0 if none).
-  /// Uses the instruction set simd_isa().
-  static real faces(const Mhd& m, Reconstruction r, Limiter l, FluxKind k, const Mhd::State* W,
-                    int f_begin, int f_end, Mhd::State* F);
+  /// values in the columns (cells f_begin-2 .. f_end must be current, ghost cells
+  /// included). Returns the largest |signal speed| of those faces (0 if none).
+  static real faces(const Mhd& m, Reconstruction r, Limiter l, FluxKind k, Columns cols, int f_begin,
+                    int f_end, Mhd::State* F);
 
   /// The numerical flux alone, for n faces with the given left and right primitive face
   /// states (no reconstruction): F[i] and speed[i] as the generic solver would return for

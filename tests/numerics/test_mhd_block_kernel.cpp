@@ -1,12 +1,12 @@
 // The fused MHD face kernel against the generic path it replaces.
 //
 // Tolerance: none. The kernel is written to perform, per face, the same IEEE operations in
-// the same order as the generic code (numerics/mhd_face_kernel.cpp), only with branches
+// the same order as the generic code (numerics/mhd_block_kernel.cpp), only with branches
 // turned into selects, and the project compiles without FP contraction or -ffast-math.
 // Bitwise equality is therefore the specification, and it is what makes results
-// independent of the code path, the instruction set (SSE2 or AVX2) and the thread count;
+// independent of the code path, the instruction set and the thread count;
 // any tolerance would hide an operation done in a different order. Each check runs for
-// every instruction set this processor supports.
+// every instruction set this processor supports (x86-64, AVX2, AVX-512).
 #include <catch2/catch.hpp>
 
 #include <bit>
@@ -41,7 +41,7 @@ bool same_bits(const S& a, const S& b) {
 
 std::vector<SimdIsa> supported_isas() {
   std::vector<SimdIsa> v;
-  for (SimdIsa isa : {SimdIsa::baseline, SimdIsa::avx2})
+  for (SimdIsa isa : all_simd_isas)
     if (simd_isa_supported(isa)) v.push_back(isa);
   return v;
 }
@@ -145,7 +145,7 @@ void check_fluxes(const Mhd& m, FluxKind kind, const std::vector<S>& WL, const s
   std::vector<double> speed(WL.size());
   for (SimdIsa isa : supported_isas()) {
     set_simd_isa(isa);
-    MhdFaceKernel::fluxes(m, kind, n, WL.data(), WR.data(), F.data(), speed.data());
+    MhdBlockKernel::fluxes(m, kind, n, WL.data(), WR.data(), F.data(), speed.data());
     int mismatches = 0, first = -1;
     for (int i = 0; i < n; ++i) {
       const auto ref = Solver{}(m, WL[static_cast<std::size_t>(i)], WR[static_cast<std::size_t>(i)]);
@@ -224,12 +224,12 @@ TEST_CASE("fused face pass equals the generic passes bitwise", "[unit][numerics]
             const bool hlld_ok = m.closure == Closure::adiabatic;
             if (k == FluxKind::hlld && !hlld_ok) {
               FvOperator<Mhd> op(g, {r, l, k}, ends, ends);
-              CHECK_FALSE(op.face_kernel_active(m));  // the generic solver's business
+              CHECK_FALSE(op.block_kernel_active(m));  // the generic solver's business
               continue;
             }
             FvOperator<Mhd> generic(g, {r, l, k}, ends, ends);
-            generic.set_face_kernel(false);
-            REQUIRE_FALSE(generic.face_kernel_active(m));
+            generic.set_block_kernel(false);
+            REQUIRE_FALSE(generic.block_kernel_active(m));
             Field<S> d_ref(g);
             const auto ref = generic.evaluate(m, 0.0, U, d_ref, true);
             // Cells whose unlimited face values are not positive: they fall back to first
@@ -246,7 +246,7 @@ TEST_CASE("fused face pass equals the generic passes bitwise", "[unit][numerics]
             for (SimdIsa isa : supported_isas()) {
               set_simd_isa(isa);
               FvOperator<Mhd> fused(g, {r, l, k}, ends, ends);
-              REQUIRE(fused.face_kernel_active(m));
+              REQUIRE(fused.block_kernel_active(m));
               Field<S> d(g);
               const auto rep = fused.evaluate(m, 0.0, U, d, true);
               int bad = -1;
@@ -299,7 +299,7 @@ TEST_CASE("MHD steps are bitwise identical for both paths, every instruction set
   auto run = [&](bool kernel, int threads) {
     const auto periodic = std::make_shared<PeriodicBoundary<Mhd>>();
     FvOperator<Mhd> op(g, {Reconstruction::plm, Limiter::mc, FluxKind::hlld}, periodic, periodic);
-    op.set_face_kernel(kernel);
+    op.set_block_kernel(kernel);
     Stepper<Mhd> stepper(std::move(op), TimeControl{0.8, 1e30, IntegratorKind::ssp_rk2});
     Field<S> U = initial();
     const int saved = omp_get_max_threads();

@@ -1,4 +1,4 @@
-// The fused MHD face kernel (see mhd_face_kernel.hpp for the contract).
+// The fused MHD face kernel (see mhd_block_kernel.hpp for the contract).
 //
 // Every function below that does arithmetic mirrors, expression by expression, the
 // generic code it replaces (Mhd in models/mhd.hpp, the solvers in numerics/riemann.hpp
@@ -8,49 +8,37 @@
 // GCC vectorise the loops over the faces of a block. Quantities of the wave regions a face
 // does not use are computed too and discarded (they may be infinite or NaN there; nothing
 // traps). If you change the generic code, change this file the same way: the
-// bitwise-equality test in tests/numerics/test_mhd_face_kernel.cpp will tell you.
+// bitwise-equality test in tests/numerics/test_mhd_block_kernel.cpp will tell you.
 //
 // Each vectorised loop is compiled twice, for baseline x86-64 (SSE2, 2 lanes) and for
 // AVX2 (4 lanes), and the instruction set is picked at run time (core/simd_isa.hpp).
-#include "numerics/mhd_face_kernel.hpp"
+#include "numerics/mhd_block_kernel.hpp"
 
 #include <algorithm>
 #include <cmath>
 
 #include "core/error.hpp"
-
-#if defined(__GNUC__)
-#define TW_ALWAYS_INLINE inline __attribute__((always_inline))
-#else
-#define TW_ALWAYS_INLINE inline
-#endif
-
-#if defined(__x86_64__) && (defined(__GNUC__) || defined(__clang__))
-#define TW_HAVE_AVX2_CLONES 1
-#define TW_TARGET_AVX2 __attribute__((target("avx2")))
-#else
-#define TW_HAVE_AVX2_CLONES 0
-#endif
+#include "core/simd_target.hpp"
 
 namespace tw {
 
 namespace {
 
 constexpr int NV = Mhd::n_vars;
-constexpr int BF = MhdFaceKernel::block_faces;
+constexpr int BF = MhdBlockKernel::block_faces;
 constexpr int RHO = Mhd::RHO, VX = Mhd::VX, VY = Mhd::VY, VZ = Mhd::VZ, BY = Mhd::BY,
               BZ = Mhd::BZ, P = Mhd::P;
 
 /// Scratch of one block, one array per variable (structure of arrays).
 struct Block {
-  /// Cell values of cells f_begin-2 .. f_end (index = cell - (f_begin - 2)).
-  alignas(64) real w[NV][BF + 3];
   /// Left state of face f_begin + j (the upper face value of cell f_begin - 1 + j).
   alignas(64) real wl[NV][BF + 1];
   /// Lower face value of cell f_begin - 1 + j: the right state of face f_begin + j - 1.
   alignas(64) real wr[NV][BF + 1];
   alignas(64) real f[NV][BF];
   alignas(64) real speed[BF];
+  /// HLLD side quantities of the left and right states of each face (first pass).
+  alignas(64) real side[2][6][BF];
 };
 
 /// Model constants, computed once per call exactly as the generic code computes them.
@@ -73,6 +61,99 @@ Consts make_consts(const Mhd& m) {
   c.inv_gm1 = 1 / (m.gamma - 1);
   c.sgn = c.bx_h > 0 ? 1.0 : (c.bx_h < 0 ? -1.0 : 0.0);
   return c;
+}
+
+// ---------------------------------------------------------------------------------------
+// Primitive variables (Mhd::prim_from_cons and Mhd::admissible).
+
+struct CellBlock {
+  alignas(64) real u[NV][BF];
+  alignas(64) real ok[BF];  // 1 where admissible, else 0
+};
+
+/// Mhd::prim_from_cons and Mhd::admissible over one block. The seven output columns are
+/// separate restrict pointers so that the compiler sees they do not overlap.
+template <bool Adiabatic>
+TW_ALWAYS_INLINE void primitives_compute(const Consts& c, const real (*__restrict u)[BF], real* __restrict ok,
+                                         real* __restrict w0, real* __restrict w1, real* __restrict w2,
+                                         real* __restrict w3, real* __restrict w4, real* __restrict w5,
+                                         real* __restrict w6, int nc) {
+  const real bx = c.bx, mu0 = c.mu0;
+  for (int j = 0; j < nc; ++j) {
+    real w[NV];
+    const real rho = u[RHO][j];
+    const real inv = 1 / rho;
+    w[RHO] = rho;
+    w[VX] = u[VX][j] * inv;
+    w[VY] = u[VY][j] * inv;
+    w[VZ] = u[VZ][j] * inv;
+    w[BY] = u[BY][j];
+    w[BZ] = u[BZ][j];
+    if constexpr (Adiabatic) {
+      const real kin = 0.5 * (u[VX][j] * w[VX] + u[VY][j] * w[VY] + u[VZ][j] * w[VZ]);
+      const real mag = (bx * bx + u[BY][j] * u[BY][j] + u[BZ][j] * u[BZ][j]) / (2 * mu0);
+      w[P] = (c.gamma - 1) * (u[P][j] - kin - mag);
+    } else {
+      w[P] = rho * c.a_iso * c.a_iso;
+    }
+    real sum = 0;
+#pragma GCC unroll 7
+    for (int k = 0; k < NV; ++k) sum += w[k];
+    const bool good = std::isfinite(sum) & (w[RHO] > 0) & (w[P] > 0);
+    ok[j] = good ? real(1) : real(0);
+    w0[j] = w[0];
+    w1[j] = w[1];
+    w2[j] = w[2];
+    w3[j] = w[3];
+    w4[j] = w[4];
+    w5[j] = w[5];
+    w6[j] = w[6];
+  }
+}
+
+/// One block of cells: U (AoS) -> primitive columns and W (AoS).
+template <bool Adiabatic>
+TW_ALWAYS_INLINE void primitives_impl(const Consts& c, const real* __restrict U, real* __restrict W,
+                                      real* __restrict cols, long stride, int nc, CellBlock& b) {
+  for (int j = 0; j < nc; ++j)
+    for (int k = 0; k < NV; ++k) b.u[k][j] = U[j * NV + k];
+  primitives_compute<Adiabatic>(c, b.u, b.ok, cols, cols + stride, cols + 2 * stride, cols + 3 * stride,
+                                cols + 4 * stride, cols + 5 * stride, cols + 6 * stride, nc);
+  for (int j = 0; j < nc; ++j)
+    for (int k = 0; k < NV; ++k) W[j * NV + k] = cols[k * stride + j];
+}
+
+using PrimFn = void (*)(const Consts&, const real*, real*, real*, long, int, CellBlock&);
+
+template <bool Adiabatic>
+void primitives_baseline(const Consts& c, const real* U, real* W, real* cols, long stride, int nc, CellBlock& b) {
+  primitives_impl<Adiabatic>(c, U, W, cols, stride, nc, b);
+}
+#if TW_HAVE_AVX2_CLONES
+template <bool Adiabatic>
+TW_TARGET_AVX2 void primitives_avx2(const Consts& c, const real* U, real* W, real* cols, long stride, int nc,
+                                    CellBlock& b) {
+  primitives_impl<Adiabatic>(c, U, W, cols, stride, nc, b);
+}
+#endif
+#if TW_HAVE_AVX512_CLONES
+template <bool Adiabatic>
+TW_TARGET_AVX512 void primitives_avx512(const Consts& c, const real* U, real* W, real* cols, long stride, int nc,
+                                    CellBlock& b) {
+  primitives_impl<Adiabatic>(c, U, W, cols, stride, nc, b);
+}
+#endif
+
+template <bool Adiabatic>
+PrimFn prim_fn(SimdIsa isa) {
+#if TW_HAVE_AVX512_CLONES
+  if (isa == SimdIsa::avx512) return &primitives_avx512<Adiabatic>;
+#endif
+#if TW_HAVE_AVX2_CLONES
+  if (isa == SimdIsa::avx2) return &primitives_avx2<Adiabatic>;
+#endif
+  (void)isa;
+  return &primitives_baseline<Adiabatic>;
 }
 
 // ---------------------------------------------------------------------------------------
@@ -101,26 +182,22 @@ TW_ALWAYS_INLINE real slope(real a, real b) {
   }
 }
 
-/// Transposes the cells a block needs into b.w.
-TW_ALWAYS_INLINE void load_cells(const real* W, int f0, int nf, Block& b) {
-  const real* src = W + static_cast<long>(f0 - 2) * NV;
-  for (int j = 0; j < nf + 3; ++j)
-    for (int k = 0; k < NV; ++k) b.w[k][j] = src[j * NV + k];
-}
-
-/// Face values of cells f0-1 .. f0+nf-1 into b.wl (upper) and b.wr (lower).
+/// Face values of cells f0-1 .. f0+nf-1 into b.wl (upper) and b.wr (lower); w points at
+/// cell f0-2 of variable 0 in the columns.
 template <int Order, Limiter L>
-TW_ALWAYS_INLINE void reconstruct(Block& b, int nf) {
+TW_ALWAYS_INLINE void reconstruct(const real* __restrict w, long stride, real (*__restrict wl)[BF + 1],
+                                  real (*__restrict wr)[BF + 1], int nf) {
   for (int j = 0; j <= nf; ++j) {
     real lo[NV], hi[NV], c[NV];
 #pragma GCC unroll 7
     for (int k = 0; k < NV; ++k) {
-      c[k] = b.w[k][j + 1];
+      const real* wk = w + k * stride;
+      c[k] = wk[j + 1];
       if constexpr (Order == 0) {
         lo[k] = c[k];
         hi[k] = c[k];
       } else {
-        const real s = 0.5 * slope<L>(c[k] - b.w[k][j], b.w[k][j + 2] - c[k]);
+        const real s = 0.5 * slope<L>(c[k] - wk[j], wk[j + 2] - c[k]);
         lo[k] = c[k] - s;
         hi[k] = c[k] + s;
       }
@@ -136,22 +213,26 @@ TW_ALWAYS_INLINE void reconstruct(Block& b, int nf) {
     }
 #pragma GCC unroll 7
     for (int k = 0; k < NV; ++k) {
-      b.wl[k][j] = hi[k];
-      b.wr[k][j] = lo[k];
+      wl[k][j] = hi[k];
+      wr[k][j] = lo[k];
     }
   }
 }
 
 template <int Order, Limiter L>
-void reconstruct_baseline(const real* W, int f0, int nf, Block& b) {
-  load_cells(W, f0, nf, b);
-  reconstruct<Order, L>(b, nf);
+void reconstruct_baseline(const real* cols, long stride, int f0, int nf, Block& b) {
+  reconstruct<Order, L>(cols + (f0 - 2), stride, b.wl, b.wr, nf);
 }
 #if TW_HAVE_AVX2_CLONES
 template <int Order, Limiter L>
-TW_TARGET_AVX2 void reconstruct_avx2(const real* W, int f0, int nf, Block& b) {
-  load_cells(W, f0, nf, b);
-  reconstruct<Order, L>(b, nf);
+TW_TARGET_AVX2 void reconstruct_avx2(const real* cols, long stride, int f0, int nf, Block& b) {
+  reconstruct<Order, L>(cols + (f0 - 2), stride, b.wl, b.wr, nf);
+}
+#endif
+#if TW_HAVE_AVX512_CLONES
+template <int Order, Limiter L>
+TW_TARGET_AVX512 void reconstruct_avx512(const real* cols, long stride, int f0, int nf, Block& b) {
+  reconstruct<Order, L>(cols + (f0 - 2), stride, b.wl, b.wr, nf);
 }
 #endif
 
@@ -208,9 +289,43 @@ TW_ALWAYS_INLINE HStar hlld_star(const Consts& c, const HSide& s, real sa, real 
 
 TW_ALWAYS_INLINE real pick(bool c, real a, real b) { return c ? a : b; }
 
-TW_ALWAYS_INLINE real hlld_face(const Consts& c, const real* WL, const real* WR, real* F) {
+/// What the flux assembly needs of a face: the state on the face's side of the contact,
+/// its outer star state, the inner state, the wave speeds and the region.
+struct HSel {
+  real rho, u, v, w, by, bz, e, pt, vb;  // outer state
+  real st_rho, st_v, st_w, st_by, st_bz, st_e;  // outer star state
+  real v2, w2, by2, bz2, e2;  // inner (double-star) state
+  real sm, sa, ss;  // contact, outer and Alfvén speeds
+  real outer, star;  // region: 1 or 0
+};
+/// Flux assembly, eq. (64) and the outer cases, then the field fluxes back to tesla.
+TW_ALWAYS_INLINE void hlld_flux(const Consts& c, const HSel& s, real* F) {
+  const real bx = c.bx_h, sm = s.sm, sa = s.sa, ss = s.ss;
+  const real Fs[NV] = {s.rho * s.u,
+                       s.rho * s.u * s.u + s.pt - bx * bx,
+                       s.rho * s.u * s.v - bx * s.by,
+                       s.rho * s.u * s.w - bx * s.bz,
+                       s.by * s.u - bx * s.v,
+                       s.bz * s.u - bx * s.w,
+                       (s.e + s.pt) * s.u - bx * s.vb};
+  const real Us[NV] = {s.rho, s.rho * s.u, s.rho * s.v, s.rho * s.w, s.by, s.bz, s.e};
+  const real Ust[NV] = {s.st_rho, s.st_rho * sm, s.st_rho * s.st_v, s.st_rho * s.st_w, s.st_by, s.st_bz, s.st_e};
+  const real U2[NV] = {s.st_rho, s.st_rho * sm, s.st_rho * s.v2, s.st_rho * s.w2, s.by2, s.bz2, s.e2};
+  const bool outer = s.outer != 0, star = s.star != 0;
+#pragma GCC unroll 7
+  for (int k = 0; k < NV; ++k) {
+    const real f_star = Fs[k] + sa * (Ust[k] - Us[k]);
+    const real f_dbl = Fs[k] + ss * U2[k] - (ss - sa) * Ust[k] - sa * Us[k];
+    F[k] = outer ? Fs[k] : (star ? f_star : f_dbl);
+  }
+  F[BY] *= c.sqrt_mu0;
+  F[BZ] *= c.sqrt_mu0;
+}
+
+/// Wave speeds, star and inner states, and the region of one face; returns the largest
+/// |signal speed|.
+TW_ALWAYS_INLINE real hlld_select(const Consts& c, const HSide& L, const HSide& R, HSel& out) {
   const real bx = c.bx_h, sgn = c.sgn;
-  const HSide L = hlld_side(c, WL), R = hlld_side(c, WR);
 
   const real cmax = std::max(L.cf, R.cf);
   const real sl = std::min(L.u, R.u) - cmax;
@@ -274,24 +389,8 @@ TW_ALWAYS_INLINE real hlld_face(const Consts& c, const real* WL, const real* WR,
   const real de = sq * (st_vb - vb2) * sgn;
   const real e2 = left ? st_e - de : st_e + de;
 
-  const real Fs[NV] = {s.rho * s.u,
-                       s.rho * s.u * s.u + s.pt - bx * bx,
-                       s.rho * s.u * s.v - bx * s.by,
-                       s.rho * s.u * s.w - bx * s.bz,
-                       s.by * s.u - bx * s.v,
-                       s.bz * s.u - bx * s.w,
-                       (s.e + s.pt) * s.u - bx * s.vb};
-  const real Us[NV] = {s.rho, s.rho * s.u, s.rho * s.v, s.rho * s.w, s.by, s.bz, s.e};
-  const real Ust[NV] = {st.rho, st.rho * sm, st.rho * st.v, st.rho * st.w, st.by, st.bz, st_e};
-  const real U2[NV] = {st.rho, st.rho * sm, st.rho * v2, st.rho * w2, by2, bz2, e2};
-#pragma GCC unroll 7
-  for (int k = 0; k < NV; ++k) {
-    const real f_star = Fs[k] + sa * (Ust[k] - Us[k]);
-    const real f_dbl = Fs[k] + ss * U2[k] - (ss - sa) * Ust[k] - sa * Us[k];
-    F[k] = outer ? Fs[k] : (star ? f_star : f_dbl);
-  }
-  F[BY] *= c.sqrt_mu0;
-  F[BZ] *= c.sqrt_mu0;
+  out = HSel{s.rho, s.u, s.v, s.w, s.by, s.bz, s.e, s.pt, s.vb, st.rho, st.v, st.w, st.by, st.bz, st_e,
+             v2, w2, by2, bz2, e2, sm, sa, ss, outer ? real(1) : real(0), star ? real(1) : real(0)};
   return speed;
 }
 
@@ -368,8 +467,72 @@ TW_ALWAYS_INLINE real rusanov_face(const Consts& c, const real* WL, const real* 
 // ---------------------------------------------------------------------------------------
 // Flux over a block: face j has left state b.wl[.][j] and right state b.wr[.][j + 1].
 
+TW_ALWAYS_INLINE void store_side(const HSide& s, real (*__restrict q)[BF], int j) {
+  q[0][j] = s.by;
+  q[1][j] = s.bz;
+  q[2][j] = s.e;
+  q[3][j] = s.pt;
+  q[4][j] = s.vb;
+  q[5][j] = s.cf;
+}
+TW_ALWAYS_INLINE HSide load_side(const real* W, const real (*__restrict q)[BF], int j) {
+  HSide s;
+  s.rho = W[RHO];
+  s.u = W[VX];
+  s.v = W[VY];
+  s.w = W[VZ];
+  s.p = W[P];
+  s.by = q[0][j];
+  s.bz = q[1][j];
+  s.e = q[2][j];
+  s.pt = q[3][j];
+  s.vb = q[4][j];
+  s.cf = q[5][j];
+  return s;
+}
+
+TW_ALWAYS_INLINE void hlld_sides(const Consts& c, const real (*__restrict wl)[BF + 1],
+                                 const real (*__restrict wr)[BF + 1], real (*__restrict ql)[BF],
+                                 real (*__restrict qr)[BF], int nf) {
+  for (int j = 0; j < nf; ++j) {
+    real a[NV], b[NV];
+#pragma GCC unroll 7
+    for (int k = 0; k < NV; ++k) {
+      a[k] = wl[k][j];
+      b[k] = wr[k][j + 1];
+    }
+    store_side(hlld_side(c, a), ql, j);
+    store_side(hlld_side(c, b), qr, j);
+  }
+}
+
+/// The second pass of HLLD over a block: everything after the side quantities.
+TW_ALWAYS_INLINE void hlld_rest(const Consts& c, const real (*__restrict wl)[BF + 1],
+                                const real (*__restrict wr)[BF + 1], const real (*__restrict ql)[BF],
+                                const real (*__restrict qr)[BF], real (*__restrict f)[BF], real* __restrict speed,
+                                int nf) {
+  for (int j = 0; j < nf; ++j) {
+    real a[NV], b[NV], F[NV];
+#pragma GCC unroll 7
+    for (int k = 0; k < NV; ++k) {
+      a[k] = wl[k][j];
+      b[k] = wr[k][j + 1];
+    }
+    HSel q;
+    speed[j] = hlld_select(c, load_side(a, ql, j), load_side(b, qr, j), q);
+    hlld_flux(c, q, F);
+#pragma GCC unroll 7
+    for (int k = 0; k < NV; ++k) f[k][j] = F[k];
+  }
+}
+
 template <FluxKind K, bool Adiabatic>
 TW_ALWAYS_INLINE void block_fluxes(const Consts& c, Block& b, int nf) {
+  if constexpr (K == FluxKind::hlld) {
+    hlld_sides(c, b.wl, b.wr, b.side[0], b.side[1], nf);
+    hlld_rest(c, b.wl, b.wr, b.side[0], b.side[1], b.f, b.speed, nf);
+    return;
+  }
   for (int j = 0; j < nf; ++j) {
     real wl[NV], wr[NV], f[NV];
 #pragma GCC unroll 7
@@ -378,8 +541,7 @@ TW_ALWAYS_INLINE void block_fluxes(const Consts& c, Block& b, int nf) {
       wr[k] = b.wr[k][j + 1];
     }
     real s;
-    if constexpr (K == FluxKind::hlld) s = hlld_face(c, wl, wr, f);
-    else if constexpr (K == FluxKind::hll) s = hll_face<Adiabatic>(c, wl, wr, f);
+    if constexpr (K == FluxKind::hll) s = hll_face<Adiabatic>(c, wl, wr, f);
     else s = rusanov_face<Adiabatic>(c, wl, wr, f);
 #pragma GCC unroll 7
     for (int k = 0; k < NV; ++k) b.f[k][j] = f[k];
@@ -397,15 +559,24 @@ TW_TARGET_AVX2 void fluxes_avx2(const Consts& c, Block& b, int nf) {
   block_fluxes<K, Adiabatic>(c, b, nf);
 }
 #endif
+#if TW_HAVE_AVX512_CLONES
+template <FluxKind K, bool Adiabatic>
+TW_TARGET_AVX512 void fluxes_avx512(const Consts& c, Block& b, int nf) {
+  block_fluxes<K, Adiabatic>(c, b, nf);
+}
+#endif
 
 // ---------------------------------------------------------------------------------------
 // Dispatch.
 
-using ReconFn = void (*)(const real*, int, int, Block&);
+using ReconFn = void (*)(const real*, long, int, int, Block&);
 using FluxFn = void (*)(const Consts&, Block&, int);
 
 template <int Order, Limiter L>
 ReconFn recon_fn(SimdIsa isa) {
+#if TW_HAVE_AVX512_CLONES
+  if (isa == SimdIsa::avx512) return &reconstruct_avx512<Order, L>;
+#endif
 #if TW_HAVE_AVX2_CLONES
   if (isa == SimdIsa::avx2) return &reconstruct_avx2<Order, L>;
 #endif
@@ -426,6 +597,9 @@ ReconFn pick_recon(Reconstruction r, Limiter l, SimdIsa isa) {
 
 template <FluxKind K, bool Adiabatic>
 FluxFn flux_fn(SimdIsa isa) {
+#if TW_HAVE_AVX512_CLONES
+  if (isa == SimdIsa::avx512) return &fluxes_avx512<K, Adiabatic>;
+#endif
 #if TW_HAVE_AVX2_CLONES
   if (isa == SimdIsa::avx2) return &fluxes_avx2<K, Adiabatic>;
 #endif
@@ -447,7 +621,22 @@ FluxFn pick_flux(FluxKind k, bool adiabatic, SimdIsa isa) {
 
 }  // namespace
 
-bool MhdFaceKernel::supports(const Mhd& m, Reconstruction r, Limiter /*l*/, FluxKind k) {
+int MhdBlockKernel::primitives(const Mhd& m, const Mhd::State* U, Mhd::State* W, Columns cols, int begin,
+                               int end) {
+  const PrimFn prim = m.closure == Closure::adiabatic ? prim_fn<true>(simd_isa()) : prim_fn<false>(simd_isa());
+  const Consts c = make_consts(m);
+  CellBlock b;
+  int bad = -1;
+  for (int i0 = begin; i0 < end; i0 += BF) {
+    const int nc = std::min(BF, end - i0);
+    prim(c, U[i0].data(), W[i0].data(), cols.data + i0, cols.stride, nc, b);
+    for (int j = 0; j < nc && bad < 0; ++j)
+      if (b.ok[j] == 0) bad = i0 + j;
+  }
+  return bad;
+}
+
+bool MhdBlockKernel::supports(const Mhd& m, Reconstruction r, Limiter /*l*/, FluxKind k) {
   if (r == Reconstruction::weno5) return false;
   switch (k) {
     case FluxKind::hlld: return m.closure == Closure::adiabatic;
@@ -458,19 +647,18 @@ bool MhdFaceKernel::supports(const Mhd& m, Reconstruction r, Limiter /*l*/, Flux
   return false;
 }
 
-real MhdFaceKernel::faces(const Mhd& m, Reconstruction r, Limiter l, FluxKind k, const Mhd::State* W,
-                          int f_begin, int f_end, Mhd::State* F) {
+real MhdBlockKernel::faces(const Mhd& m, Reconstruction r, Limiter l, FluxKind k, Columns cols, int f_begin,
+                          int f_end, Mhd::State* F) {
   TW_ASSERT(supports(m, r, l, k), "scheme not supported by the fused kernel");
   const SimdIsa isa = simd_isa();
   const ReconFn recon = pick_recon(r, l, isa);
   const FluxFn flux = pick_flux(k, m.closure == Closure::adiabatic, isa);
   const Consts c = make_consts(m);
-  const real* w = W[0].data();
   real smax = 0;
   Block b;
   for (int f0 = f_begin; f0 < f_end; f0 += BF) {
     const int nf = std::min(BF, f_end - f0);
-    recon(w, f0, nf, b);
+    recon(cols.data, cols.stride, f0, nf, b);
     flux(c, b, nf);
     for (int j = 0; j < nf; ++j) {
       real* out = F[f0 + j].data();
@@ -482,7 +670,7 @@ real MhdFaceKernel::faces(const Mhd& m, Reconstruction r, Limiter l, FluxKind k,
   return smax;
 }
 
-void MhdFaceKernel::fluxes(const Mhd& m, FluxKind k, int n, const Mhd::State* WL,
+void MhdBlockKernel::fluxes(const Mhd& m, FluxKind k, int n, const Mhd::State* WL,
                            const Mhd::State* WR, Mhd::State* F, real* speed) {
   const FluxFn flux = pick_flux(k, m.closure == Closure::adiabatic, simd_isa());
   TW_CHECK(flux != nullptr, "flux kind has no fused kernel");
