@@ -16,6 +16,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdint>
 
 #include "core/error.hpp"
 #include "core/simd_target.hpp"
@@ -68,13 +69,14 @@ Consts make_consts(const Mhd& m) {
 
 struct CellBlock {
   alignas(64) real u[NV][BF];
-  alignas(64) real ok[BF];  // 1 where admissible, else 0
+  alignas(64) std::int64_t ok[BF];  // 1 where admissible, else 0 (as wide as a real)
+  std::int64_t n_ok;                // how many are admissible
 };
 
 /// Mhd::prim_from_cons and Mhd::admissible over one block. The seven output columns are
 /// separate restrict pointers so that the compiler sees they do not overlap.
 template <bool Adiabatic>
-TW_ALWAYS_INLINE void primitives_compute(const Consts& c, const real (*__restrict u)[BF], real* __restrict ok,
+TW_ALWAYS_INLINE void primitives_compute(const Consts& c, const real (*__restrict u)[BF], std::int64_t* __restrict ok,
                                          real* __restrict w0, real* __restrict w1, real* __restrict w2,
                                          real* __restrict w3, real* __restrict w4, real* __restrict w5,
                                          real* __restrict w6, int nc) {
@@ -100,7 +102,7 @@ TW_ALWAYS_INLINE void primitives_compute(const Consts& c, const real (*__restric
 #pragma GCC unroll 7
     for (int k = 0; k < NV; ++k) sum += w[k];
     const bool good = std::isfinite(sum) & (w[RHO] > 0) & (w[P] > 0);
-    ok[j] = good ? real(1) : real(0);
+    ok[j] = good ? 1 : 0;
     w0[j] = w[0];
     w1[j] = w[1];
     w2[j] = w[2];
@@ -116,10 +118,15 @@ template <bool Adiabatic>
 TW_ALWAYS_INLINE void primitives_impl(const Consts& c, const real* __restrict U, real* __restrict W,
                                       real* __restrict cols, long stride, int nc, CellBlock& b) {
   for (int j = 0; j < nc; ++j)
+#pragma GCC unroll 7
     for (int k = 0; k < NV; ++k) b.u[k][j] = U[j * NV + k];
   primitives_compute<Adiabatic>(c, b.u, b.ok, cols, cols + stride, cols + 2 * stride, cols + 3 * stride,
                                 cols + 4 * stride, cols + 5 * stride, cols + 6 * stride, nc);
+  std::int64_t n_ok = 0;
+  for (int j = 0; j < nc; ++j) n_ok += b.ok[j];
+  b.n_ok = n_ok;
   for (int j = 0; j < nc; ++j)
+#pragma GCC unroll 7
     for (int k = 0; k < NV; ++k) W[j * NV + k] = cols[k * stride + j];
 }
 
@@ -630,8 +637,9 @@ int MhdBlockKernel::primitives(const Mhd& m, const Mhd::State* U, Mhd::State* W,
   for (int i0 = begin; i0 < end; i0 += BF) {
     const int nc = std::min(BF, end - i0);
     prim(c, U[i0].data(), W[i0].data(), cols.data + i0, cols.stride, nc, b);
-    for (int j = 0; j < nc && bad < 0; ++j)
-      if (b.ok[j] == 0) bad = i0 + j;
+    if (b.n_ok != nc)
+      for (int j = 0; j < nc && bad < 0; ++j)
+        if (b.ok[j] == 0) bad = i0 + j;
   }
   return bad;
 }
