@@ -20,5 +20,7 @@ int cmd_plasma(std::span<const std::string> args);
 int cmd_run(std::span<const std::string> args);
 int cmd_check(std::span<const std::string> args);
 int cmd_keys(std::span<const std::string> args);
+/// `tubewave measure`: wave figures of a finished run (cmd_measure.cpp).
+int cmd_measure(std::span<const std::string> args);
 
 }  // namespace tw::cli

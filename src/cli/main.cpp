@@ -27,6 +27,8 @@ constexpr std::array commands{
     Command{"check", "validate a run file and estimate the time step, steps, memory and output size",
             tw::cli::cmd_check},
     Command{"keys", "print the reference of every run-file key", tw::cli::cmd_keys},
+    Command{"measure", "measure frequency, wavelength, phase and group speed, damping and the omega-k spectrum of a run",
+            tw::cli::cmd_measure},
     Command{"plasma", "print derived plasma parameters (speeds, frequencies, lengths, collisions)",
             tw::cli::cmd_plasma},
 };

@@ -15,6 +15,7 @@
 #include "drive/boundary.hpp"
 #include "drive/driven_end.hpp"
 #include "io/output.hpp"
+#include "io/xdmf.hpp"
 #include "sim/case.hpp"
 #include "sim/initial.hpp"
 #include "sim/model_setup.hpp"
@@ -264,6 +265,7 @@ class CaseRunner {
     }
     const double wall = std::chrono::duration<double>(clock::now() - t0).count();
     out.close_as(outcome, message, step, t, wall);
+    io::write_xdmf_sidecar(c_.output.file);  // RUN.xmf: the snapshots for XDMF viewers
     report(true);
     sum.outcome = outcome;
     sum.message = message;

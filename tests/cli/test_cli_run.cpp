@@ -82,7 +82,7 @@ TEST_CASE("cli: check and run of a missing run file exit 2 and name it", "[unit]
   CHECK(entries(dir.path()).empty());
 }
 
-TEST_CASE("cli: a small run completes, exits 0 and leaves one complete file", "[unit]") {
+TEST_CASE("cli: a small run completes, exits 0 and leaves one complete file and its XDMF sidecar", "[unit]") {
   const ScratchDir dir("cli-run");
   const auto r = run_tubewave("run " + quoted(source_path("configs/sod_shock_tube.yaml").string()) +
                                   " -o sod.h5 --quiet --threads 1 --set grid.cells=50"
@@ -91,8 +91,8 @@ TEST_CASE("cli: a small run completes, exits 0 and leaves one complete file", "[
   INFO(r.output);
   CHECK(r.exit_code == 0);
   CHECK_THAT(r.output, Contains("completed"));
-  // Only the final file: the temporary one was renamed.
-  CHECK(entries(dir.path()) == std::vector<std::string>{"sod.h5"});
+  // Only the final file and its sidecar: the temporary ones were renamed.
+  CHECK(entries(dir.path()) == std::vector<std::string>{"sod.h5", "sod.xmf"});
   const tw::io::H5Reader h((dir / "sod.h5").string());
   CHECK(h.is_complete());
   CHECK(h.attr_int("/", "complete") == 1);
@@ -117,7 +117,7 @@ TEST_CASE("cli: a run that blows up exits 1 and leaves a file marked failed", "[
   CHECK(r.exit_code == 1);
   CHECK_THAT(r.output, Contains("non-physical state"));
   CHECK_THAT(r.output, Contains("failed"));
-  REQUIRE(entries(dir.path()) == std::vector<std::string>{"blowup.h5"});
+  REQUIRE(entries(dir.path()) == std::vector<std::string>{"blowup.h5", "blowup.xmf"});
   const tw::io::H5Reader h((dir / "blowup.h5").string());
   CHECK_FALSE(h.is_complete());
   CHECK(h.attr_int("/", "complete") == 0);
