@@ -38,11 +38,20 @@ struct FluxFor<Mhd, FluxKind::hlld> {
 template <class M, FluxKind K>
 using flux_type_t = typename FluxFor<M, K>::type;
 
-/// Optional fused face kernel for model M: reconstruction and numerical flux over a range
-/// of faces in one blocked, vectorised pass (see numerics/mhd_block_kernel.hpp for the
-/// contract). `void` (the default) means the operator uses its generic passes. The
-/// kernel must reproduce the generic passes bitwise for every scheme it `supports()`;
-/// for any other scheme the operator falls back to the generic passes.
+/// Optional block kernels for model M: its primitive conversion, and reconstruction plus
+/// numerical flux, over blocks of cells and faces in vectorised loops. `void` (the
+/// default) means the operator uses its generic passes. A kernel type provides (see
+/// MhdBlockKernel in numerics/mhd_block_kernel.hpp for the full contract):
+///   static constexpr int block_faces;     cells or faces per block
+///   struct Columns { real* data; long stride; };  the field, one array per variable
+///   static long columns_size(long n_total);
+///   static bool applies(const M&);        the kernels mirror this configuration
+///   static int primitives(const M&, const State* U, State* W, Columns, int begin, int end);
+///   static bool supports(const M&, Reconstruction, Limiter, FluxKind);
+///   static real faces(const M&, Reconstruction, Limiter, FluxKind, Columns, int f_begin,
+///                     int f_end, State* F);
+/// It must reproduce the generic passes bitwise wherever applies()/supports() are true;
+/// elsewhere the operator falls back to the generic passes.
 template <class M>
 struct BlockKernelFor {
   using type = void;

@@ -10,10 +10,13 @@
 ///   3. reconstruction of the two face values of each cell;
 ///   4. numerical flux at each face, plus the model's gradient flux;
 ///   5. flux difference plus sources.
-/// When the model registers a fused face kernel (BlockKernelFor<M>, numerics/fluxes.hpp)
-/// that supports the scheme, passes 3 and 4 run as that kernel over blocks of faces
-/// instead; it gives bitwise the same fluxes, only faster (set_block_kernel(false) forces
-/// the generic passes, for comparisons).
+/// When the model registers a block kernel (BlockKernelFor<M>, numerics/fluxes.hpp), pass 1
+/// runs as that kernel over blocks of cells (it also keeps a copy of the primitive field as
+/// one array per variable), and, where it supports the scheme, passes 3 and 4 run as one
+/// kernel over blocks of faces. The kernels give bitwise the same results as the generic
+/// passes, only faster (set_block_kernel(false) forces the generic passes, for
+/// comparisons); everything else (boundaries, gradient fluxes, sources, limits, checks)
+/// is unchanged.
 /// No pass has an order-dependent floating-point reduction (max and min are exact), so
 /// results are bitwise identical for any thread count.
 #include <algorithm>
@@ -82,13 +85,24 @@ class FvOperator {
       columns_.resize(static_cast<std::size_t>(BlockKernel::columns_size(grid.n_total())));
   }
 
-  /// Use the model's fused face kernel where it supports the scheme (the default), or
-  /// force the generic reconstruction and flux passes (false).
+  /// Use the model's block kernel where it applies (the default), or force the generic
+  /// passes (false).
   void set_block_kernel(bool on) { use_block_kernel_ = on; }
-  /// True when evaluate() with model m runs the fused face kernel.
+  /// True when evaluate() with model m converts to primitive variables with the model's
+  /// block kernel.
+  [[nodiscard]] bool block_primitives_active(const M& m) const {
+    if constexpr (HasBlockKernel) {
+      return use_block_kernel_ && BlockKernel::applies(m);
+    } else {
+      (void)m;
+      return false;
+    }
+  }
+  /// True when evaluate() with model m also reconstructs and computes the fluxes with the
+  /// model's block kernel.
   [[nodiscard]] bool block_kernel_active(const M& m) const {
     if constexpr (HasBlockKernel) {
-      return use_block_kernel_ &&
+      return block_primitives_active(m) &&
              BlockKernel::supports(m, scheme_.reconstruction, scheme_.limiter, scheme_.flux);
     } else {
       (void)m;
@@ -113,11 +127,12 @@ class FvOperator {
     int bad = std::numeric_limits<int>::max();
     real smax = 0;
     std::vector<StepLimits> thread_limits;
+    const bool blocked = block_primitives_active(m);
     const bool fused = block_kernel_active(m);
 
 #pragma omp parallel if (run_parallel(n))
     {
-      if (use_block_kernel_) {
+      if (blocked) {
         primitives_pass_blocked(m, U, bad);
       } else {
 #pragma omp for schedule(static) reduction(min : bad)
@@ -130,7 +145,7 @@ class FvOperator {
       {
         left_->fill(m, grid_, Side::left, t, W_);
         right_->fill(m, grid_, Side::right, t, W_);
-        if (use_block_kernel_) ghosts_to_columns();
+        if (blocked) ghosts_to_columns();
       }
       if (fused) {
         fused_face_pass(m, dx, smax);
@@ -293,10 +308,10 @@ class FvOperator {
     }
   }
 
-  /// Pass 1 as the model's block kernel (or the generic loop if it has none).
+  /// Pass 1 as the model's block kernel, over whole blocks of cells.
   void primitives_pass_blocked(const M& m, const Field<State>& U, int& bad) {
-    const int n = grid_.n_cells;
     if constexpr (HasBlockKernel) {
+      const int n = grid_.n_cells;
       constexpr int block = BlockKernel::block_faces;
       const int n_blocks = (n + block - 1) / block;
 #pragma omp for schedule(static) reduction(min : bad)
@@ -306,16 +321,14 @@ class FvOperator {
         if (k >= 0) bad = std::min(bad, k);
       }
     } else {
-#pragma omp for schedule(static) reduction(min : bad)
-      for (int i = 0; i < n; ++i) {
-        W_[i] = m.prim_from_cons(U[i]);
-        if (!m.admissible(W_[i])) bad = std::min(bad, i);
-      }
+      (void)m;
+      (void)U;
+      (void)bad;
     }
   }
 
-  /// Passes 3 and 4 as the model's fused kernel, over whole blocks of faces, plus the
-  /// gradient flux as in face_pass.
+  /// Passes 3 and 4 as the model's block kernel, over whole blocks of faces, plus the
+  /// gradient flux as in face_pass. Needs the columns of pass 1 (block kernel) and pass 2.
   void fused_face_pass(const M& m, real dx, real& smax) {
     if constexpr (HasBlockKernel) {
       constexpr int block = BlockKernel::block_faces;

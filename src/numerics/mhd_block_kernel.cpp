@@ -1,4 +1,4 @@
-// The fused MHD face kernel (see mhd_block_kernel.hpp for the contract).
+// The MHD block kernels (see mhd_block_kernel.hpp for the contract).
 //
 // Every function below that does arithmetic mirrors, expression by expression, the
 // generic code it replaces (Mhd in models/mhd.hpp, the solvers in numerics/riemann.hpp
@@ -22,6 +22,11 @@
 #include "core/simd_target.hpp"
 
 namespace tw {
+
+// A tripwire: the kernels mirror every member of Mhd that changes its fluxes or its
+// primitive variables. When a member is added, make the kernels reproduce it (or make
+// applies() false while it is active), extend the tests, then update this size.
+static_assert(sizeof(Mhd) == 8 * sizeof(real), "Mhd changed: review MhdBlockKernel (see the comment above)");
 
 namespace {
 
@@ -644,8 +649,10 @@ int MhdBlockKernel::primitives(const Mhd& m, const Mhd::State* U, Mhd::State* W,
   return bad;
 }
 
+bool MhdBlockKernel::applies(const Mhd& /*m*/) { return true; }
+
 bool MhdBlockKernel::supports(const Mhd& m, Reconstruction r, Limiter /*l*/, FluxKind k) {
-  if (r == Reconstruction::weno5) return false;
+  if (!applies(m) || r == Reconstruction::weno5) return false;
   switch (k) {
     case FluxKind::hlld: return m.closure == Closure::adiabatic;
     case FluxKind::hll:
@@ -657,7 +664,7 @@ bool MhdBlockKernel::supports(const Mhd& m, Reconstruction r, Limiter /*l*/, Flu
 
 real MhdBlockKernel::faces(const Mhd& m, Reconstruction r, Limiter l, FluxKind k, Columns cols, int f_begin,
                           int f_end, Mhd::State* F) {
-  TW_ASSERT(supports(m, r, l, k), "scheme not supported by the fused kernel");
+  TW_ASSERT(supports(m, r, l, k), "scheme not supported by the block kernel");
   const SimdIsa isa = simd_isa();
   const ReconFn recon = pick_recon(r, l, isa);
   const FluxFn flux = pick_flux(k, m.closure == Closure::adiabatic, isa);
@@ -681,7 +688,7 @@ real MhdBlockKernel::faces(const Mhd& m, Reconstruction r, Limiter l, FluxKind k
 void MhdBlockKernel::fluxes(const Mhd& m, FluxKind k, int n, const Mhd::State* WL,
                            const Mhd::State* WR, Mhd::State* F, real* speed) {
   const FluxFn flux = pick_flux(k, m.closure == Closure::adiabatic, simd_isa());
-  TW_CHECK(flux != nullptr, "flux kind has no fused kernel");
+  TW_CHECK(flux != nullptr, "flux kind has no block kernel");
   const Consts c = make_consts(m);
   Block b;
   for (int i0 = 0; i0 < n; i0 += BF) {

@@ -1,22 +1,31 @@
 #pragma once
-/// The fused face kernel of MHD: reconstruction (first order or PLM with any limiter, with
-/// the positivity fallback) and the numerical flux (HLLD, HLL or Rusanov) for a range of
-/// faces in one pass, written so that the compiler vectorises it.
+/// The block kernels of MHD: the finite-volume operator's hot passes for Mhd, written so
+/// that the compiler vectorises them.
 ///
-/// Why: the generic operator passes one face at a time through `HlldFlux` and friends,
-/// with branches that differ from face to face, so nothing vectorises; on one core that
-/// left the MHD step at about half of its target rate. Here faces are processed in blocks
-/// of `block_faces`: the cell values of a block are transposed to one array per variable,
-/// reconstructed, and the Riemann solver runs branch-free over the block (every wave
-/// region is computed and the right one selected per face), so each instruction works on
-/// 2 (SSE2) or 4 (AVX2) faces at once.
+/// - primitives(): conservative -> primitive variables and the admissibility check, over a
+///   block of cells (pass 1 of FvOperator); it also writes the primitive field as one
+///   array per variable (the "columns"), which the face kernel reads without transposing.
+/// - faces(): reconstruction (first order, or PLM with any limiter and the positivity
+///   fallback) and the numerical flux (HLLD, HLL or Rusanov) over a block of faces
+///   (passes 3 and 4), in one sweep.
 ///
-/// Contract: for every scheme `supports()` accepts, the fluxes and the largest signal
-/// speed are bitwise identical to the generic passes (`FvOperator` reconstruction +
-/// `HlldFlux` / `HllFlux` / `RusanovFlux`): each face performs the same IEEE operations in
+/// Why: the generic operator handles one cell or face at a time through the model's
+/// functions and `HlldFlux`, with branches that differ from face to face, so nothing
+/// vectorises; that left the MHD step at about half of its target rate on one core. Here
+/// cells and faces are processed in blocks of `block_faces`, one array per variable
+/// (structure of arrays), and the Riemann solver is branch-free (every wave region is
+/// computed and the right one selected per face), so each instruction works on 2 (SSE2),
+/// 4 (AVX2) or 8 (AVX-512) faces at once. The loops are compiled for each instruction set
+/// and chosen at run time (core/simd_isa.hpp).
+///
+/// Contract: wherever `applies()` / `supports()` accept the model and scheme, the results
+/// (primitive states, first inadmissible cell, fluxes, largest signal speed) are bitwise
+/// identical to the generic passes (`Mhd` + `FvOperator` reconstruction + `HlldFlux` /
+/// `HllFlux` / `RusanovFlux`): each cell and face performs the same IEEE operations in
 /// the same order; only the branches became selects. That needs no FP contraction and no
-/// -ffast-math (the project compiles with -ffp-contract=off). tests/numerics checks it on
-/// random and degenerate states for every instruction set this processor supports.
+/// -ffast-math (the project compiles with -ffp-contract=off).
+/// tests/numerics/test_mhd_block_kernel.cpp checks it on random, degenerate and
+/// inadmissible states for every instruction set the processor supports.
 #include "core/simd_isa.hpp"
 #include "models/mhd.hpp"
 #include "numerics/flux_kind.hpp"
@@ -38,14 +47,19 @@ struct MhdBlockKernel {
   /// Reals needed for the columns of a grid with n_total cells (ghosts included).
   static long columns_size(long n_total) { return n_total * Mhd::n_vars; }
 
+  /// True when the kernels mirror this configuration of the model (every one the Mhd
+  /// type can express today; a new Mhd term that the kernels do not reproduce must make
+  /// this false while it is active, and the operator then uses its generic passes).
+  static bool applies(const Mhd& m);
+
   /// Primitive variables W[i] = m.prim_from_cons(U[i]) for the cells i in [begin, end)
   /// (arrays indexed like Field), written to W and to the columns. Returns the first of
   /// those cells whose state is not m.admissible, or -1. Any scheme, either closure.
   static int primitives(const Mhd& m, const Mhd::State* U, Mhd::State* W, Columns cols, int begin, int end);
 
-  /// True when the kernel reproduces the generic passes for this choice: first order or
-  /// PLM (any limiter); HLLD (adiabatic closure, as the generic solver), HLL or Rusanov
-  /// (either closure). WENO5 and other fluxes use the generic passes.
+  /// True when faces() reproduces the generic passes for this choice: applies(m), and first
+  /// order or PLM (any limiter); HLLD (adiabatic closure, as the generic solver), HLL or
+  /// Rusanov (either closure). WENO5 and other fluxes use the generic passes.
   static bool supports(const Mhd& m, Reconstruction r, Limiter l, FluxKind k);
 
   /// Numerical fluxes F[f] for the faces f in [f_begin, f_end) from the primitive cell

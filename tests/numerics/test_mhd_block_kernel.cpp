@@ -1,4 +1,4 @@
-// The fused MHD face kernel against the generic path it replaces.
+// The MHD block kernels against the generic passes they replace.
 //
 // Tolerance: none. The kernel is written to perform, per face, the same IEEE operations in
 // the same order as the generic code (numerics/mhd_block_kernel.cpp), only with branches
