@@ -85,6 +85,54 @@ def _mhd_alfven_resistive(bg, k):
     return -0.5j * (eta_m + nu) * k * k + root
 
 
+# --- Hall MHD ----------------------------------------------------------------------------
+#
+# Parallel circularly polarised waves along B0 = B_x x of Hall MHD (the model's header,
+# src/models/hall.hpp): with the Hall coefficient h = B_x/(mu0 e n_e) = v_A d_i, the magnetic
+# diffusivity eta_m = eta/mu0, the electron inertial length d_e (0 without electron inertia)
+# and the Alfven speed along x, with the displacement current's extra inertia when a light
+# speed c is kept, v^2 = v_A^2/(1 + v_A^2/c^2), the field b = B_y + i B_z ~ exp(i(k x - w t))
+# obeys
+#   (1 + k^2 d_e^2) w^2 + (|h| + i eta_m) k^2 w - k^2 v^2 = 0.
+# Without eta_m and d_e this is w = (k^2 v_A d_i / 2)(sqrt(1 + 4/(k d_i)^2) -+ 1), the
+# left-hand (ion-cyclotron, upper sign) and right-hand (whistler) branches (validation sheet
+# section 3; Hall MHD, e.g. J. D. Huba 2003, Lect. Notes Phys. 615, 166 [M]); electron
+# inertia bends the whistler toward the electron cyclotron frequency (the sheet's section 4,
+# "Hall + electron inertia"); the resistive damping of each branch is derived here. The
+# right-hand wave toward +x is the mirror image of the root with negative real part.
+
+def _hall(bg, k, right):
+    rho = bg["initial_mean_mass_density"]
+    mu0 = bg["mu0"]
+    bx = bg["field_x"]
+    h = abs(bg.get("hall_coefficient", 0.0))
+    va2 = bx * bx / (mu0 * rho)
+    c = bg.get("displacement_light_speed", 0.0)
+    if c > 0:
+        va2 = va2 / (1 + va2 / (c * c))
+    de2 = bg.get("electron_inertial_length", 0.0) ** 2
+    eta_m = bg.get("resistivity", 0.0) / mu0
+    k = np.asarray(k, dtype=complex)
+    g = 1 + k * k * de2
+    b = (h + 1j * eta_m) * k * k
+    s = np.sqrt(b * b + 4 * g * k * k * va2)
+    if right:
+        return -np.conj((-b - s) / (2 * g))
+    return (-b + s) / (2 * g)
+
+
+@formula("hall-right", "Hall MHD right-hand (whistler) wave along B0, with electron inertia, "
+                       "resistivity and the displacement current when the run has them")
+def _hall_right(bg, k):
+    return _hall(bg, k, True)
+
+
+@formula("hall-left", "Hall MHD left-hand (ion-cyclotron) wave along B0, with electron inertia, "
+                      "resistivity and the displacement current when the run has them")
+def _hall_left(bg, k):
+    return _hall(bg, k, False)
+
+
 # --- Derived quantities -----------------------------------------------------------------
 
 def omega(formula_id, bg, k):

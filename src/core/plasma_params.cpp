@@ -63,6 +63,13 @@ real braginskii_alpha0(int Z) {
   return alpha_inf + (alpha_4 - alpha_inf) * 4.0 / static_cast<real>(Z);
 }
 
+real braginskii_tau_e(real n_e, real Te_eV, int Z, real ln_lambda) {
+  TW_CHECK(n_e > 0 && Te_eV > 0 && Z >= 1 && ln_lambda > 0, "needs n_e, T_e, ln Lambda > 0 and Z >= 1");
+  const real kTe = Te_eV * K::eV;
+  return 6.0 * std::sqrt(2.0) * std::pow(K::pi, 1.5) * K::eps0 * K::eps0 * std::sqrt(K::m_e) *
+         std::pow(kTe, 1.5) / (ln_lambda * std::pow(K::e, 4) * static_cast<real>(Z) * n_e);
+}
+
 real coulomb_logarithm_nrl(real n_e, real Te_eV, int Z) {
   TW_CHECK(n_e > 0 && Te_eV > 0 && Z >= 1, "needs n_e > 0, T_e > 0, Z >= 1");
   const real n_cc = n_e * 1e-6;  // the formulary's n_e is in cm^-3
@@ -166,9 +173,7 @@ PlasmaParameters derive_plasma_parameters(const PlasmaInput& in) {
   p.ln_lambda = ln_lambda;
 
   // Braginskii tau_e; Z n_e = Z^2 n_i for one ion species.
-  const real tau_e = 6.0 * std::sqrt(2.0) * std::pow(K::pi, 1.5) * K::eps0 * K::eps0 *
-                     std::sqrt(K::m_e) * std::pow(kTe, 1.5) /
-                     (ln_lambda * std::pow(K::e, 4) * z * n_e);
+  const real tau_e = braginskii_tau_e(n_e, in.Te_eV, in.Z, ln_lambda);
   p.tau_e = tau_e;
   p.nu_ei = 1.0 / tau_e;
   p.omega_ce_tau_e = p.omega_ce * tau_e;

@@ -132,6 +132,11 @@ void validate_plasma_input(const PlasmaInput& in);
 /// Braginskii's parallel-resistivity coefficient alpha_0(Z) (eta_par = alpha_0 eta_perp).
 [[nodiscard]] real braginskii_alpha0(int Z);
 
+/// Braginskii electron collision time tau_e [s] (formula in the file comment; SI constants,
+/// physical electron mass); n_e [m^-3] > 0, Te_eV > 0, Z >= 1, ln_lambda > 0. The one place
+/// the formula is written: derive_plasma_parameters() and the two-fluid friction use it.
+[[nodiscard]] real braginskii_tau_e(real n_e, real Te_eV, int Z, real ln_lambda);
+
 /// NRL Formulary electron-ion Coulomb logarithm (see the file comment); requires
 /// n_e > 0 [m^-3] and T_e > 0 [eV].
 [[nodiscard]] real coulomb_logarithm_nrl(real n_e, real Te_eV, int Z);

@@ -22,8 +22,26 @@
 /// - kinematic viscosity nu [m^2/s] (Navier-Stokes, no bulk viscosity): momentum flux
 ///   -rho nu (4/3 du/dx, dv/dx, dw/dx) and the matching work term in the energy flux.
 ///
+/// Displacement current (the Boris correction; Boris 1970, NRL Memo. Rep. 2167, and
+/// Gombosi et al. 2002, J. Comput. Phys. 177, 176 — both from memory): with a light speed c
+/// (physical, or reduced to lengthen the step) Ampère's law keeps eps dE/dt,
+/// eps = 1/(mu0 c^2), and E = -u x B. Momentum and energy then include the field's:
+///
+///   m = rho u + eps E x B = rho u + eps (B^2 u - (u.B) B),   E_tot += eps |E|^2 / 2,
+///
+/// and the momentum flux gains the electric stress eps (|E|^2/2 I - E E) (x row). The
+/// extra inertia eps B^2 acts on the velocity across B only, so shear Alfvén waves travel
+/// at v_A / sqrt(1 + v_A^2/c^2) (the low-frequency perpendicular dielectric constant
+/// eps0 (1 + c^2/v_A^2)). The velocity is recovered exactly from m by Sherman-Morrison:
+/// u = (m + (eps/rho)(B.m) B) / (rho + eps B^2). The fast speed used for the Riemann
+/// solvers is the root of the linearised system (derived here):
+///   s^2 (1 + e b^2) - s (a^2 + b^2 + e a^2 b_x^2) + a^2 b_x^2 = 0,  e = 1/c^2,
+/// b^2 = |B|^2/(mu0 rho), b_x^2 = B_x^2/(mu0 rho); it reduces to the perpendicular fast
+/// speed (a^2 + b^2)/(1 + b^2/c^2) and to a^2 and b_x^2/(1 + b^2/c^2) along B.
+///
 /// Primitive variables W = (rho, u, v, w, By, Bz, p); conservative
-/// U = (rho, rho u, rho v, rho w, By, Bz, E).
+/// U = (rho, m_x, m_y, m_z, By, Bz, E) with m = rho u (plus eps E x B with the
+/// displacement current).
 #include <cmath>
 #include <vector>
 
@@ -32,6 +50,28 @@
 namespace tw {
 
 enum class Closure { adiabatic, isothermal };
+
+/// Face flux of the transverse-field law dB_perp/dt = d/dx (C dB_perp/dx) with
+/// C = [[eta_m, h], [-h, eta_m]]: magnetic diffusion eta_m = eta/mu0 [m^2/s] (resistive
+/// electric field eta J) and the Hall coefficient h = B_x/(mu0 e n_e) [m^2/s] (Hall
+/// electric field J x B/(e n_e)); in complex form b = B_y + i B_z, F_b = -(eta_m - i h) db/dx.
+/// Gradients by the two-point difference across the face, field values by the face
+/// average. The energy flux is the matching Poynting flux (E x B)_x/mu0 = (B.F_B)/mu0, so
+/// total energy is conserved and the Hall part does no work (its E is across J).
+struct FieldGradientFlux {
+  real by = 0, bz = 0;  ///< fluxes of B_y and B_z [T m/s]
+  real energy = 0;      ///< Poynting flux [W/m^2]
+};
+inline FieldGradientFlux field_gradient_flux(real eta_m, real h, real mu0, real by_l, real bz_l, real by_r,
+                                             real bz_r, real dx) {
+  const real dby = (by_r - by_l) / dx, dbz = (bz_r - bz_l) / dx;
+  const real by = 0.5 * (by_l + by_r), bz = 0.5 * (bz_l + bz_r);
+  FieldGradientFlux f;
+  f.by = -(eta_m * dby + h * dbz);
+  f.bz = h * dby - eta_m * dbz;
+  f.energy = (by * f.by + bz * f.bz) / mu0;
+  return f;
+}
 
 struct Mhd {
   static constexpr int n_vars = 7;
@@ -48,6 +88,25 @@ struct Mhd {
   real particle_mass = 1;        ///< mass per ion incl. its electrons [kg]: rho / n_i
   real resistivity = 0;          ///< eta [Ohm m]
   real viscosity = 0;            ///< kinematic viscosity nu [m^2/s]
+  real eps_disp = 0;             ///< 1/(mu0 c^2) of the displacement current [F/m]; 0 = neglected
+
+  /// Electric field E = -u x B of a primitive state [V/m].
+  [[nodiscard]] std::array<real, 3> electric_field(const State& W) const {
+    return {-(W[VY] * W[BZ] - W[VZ] * W[BY]), -(W[VZ] * bx - W[VX] * W[BZ]), -(W[VX] * W[BY] - W[VY] * bx)};
+  }
+  /// Electric energy density eps |E|^2/2 of the displacement current [J/m^3] (0 without it).
+  [[nodiscard]] real electric_energy(const State& W) const {
+    if (eps_disp <= 0) return 0;
+    const auto e = electric_field(W);
+    return 0.5 * eps_disp * (e[0] * e[0] + e[1] * e[1] + e[2] * e[2]);
+  }
+  /// Speed of circularly polarised Alfvén waves along B0 = B_x x [m/s]: B_x^2/(mu0 rho_eff)
+  /// with rho_eff = rho + eps B_x^2 when the displacement current is kept (its inertia acts on
+  /// u_perp, which is parallel to B_perp in these waves).
+  [[nodiscard]] real alfven_speed_x(real rho) const {
+    const real va2 = bx * bx / (mu0 * rho);
+    return std::sqrt(va2 / (1 + eps_disp * mu0 * va2));
+  }
 
   static const char* name() { return "mhd"; }
 
@@ -65,8 +124,20 @@ struct Mhd {
     W[VZ] = U[MZ] * inv;
     W[BY] = U[BY];
     W[BZ] = U[BZ];
+    if (eps_disp > 0) {
+      // (rho I + eps (B^2 I - B B)) u = m, inverted by Sherman-Morrison.
+      const real by = U[BY], bz = U[BZ];
+      const real b2 = bx * bx + by * by + bz * bz;
+      const real bm = bx * U[MX] + by * U[MY] + bz * U[MZ];
+      const real f = eps_disp * bm * inv;
+      const real d = 1 / (rho + eps_disp * b2);
+      W[VX] = (U[MX] + f * bx) * d;
+      W[VY] = (U[MY] + f * by) * d;
+      W[VZ] = (U[MZ] + f * bz) * d;
+    }
     if (closure == Closure::adiabatic) {
-      const real kin = 0.5 * (U[MX] * W[VX] + U[MY] * W[VY] + U[MZ] * W[VZ]);
+      const real kin = eps_disp > 0 ? 0.5 * rho * (W[VX] * W[VX] + W[VY] * W[VY] + W[VZ] * W[VZ]) + electric_energy(W)
+                                    : 0.5 * (U[MX] * W[VX] + U[MY] * W[VY] + U[MZ] * W[VZ]);
       W[P] = (gamma - 1) * (U[EN] - kin - magnetic_energy(U[BY], U[BZ]));
     } else {
       W[P] = rho * sound_speed_iso * sound_speed_iso;
@@ -84,10 +155,19 @@ struct Mhd {
     U[BY] = W[BY];
     U[BZ] = W[BZ];
     U[EN] = closure == Closure::adiabatic ? total_energy(W) : 0.0;
+    if (eps_disp > 0) {
+      const real b2 = bx * bx + W[BY] * W[BY] + W[BZ] * W[BZ];
+      const real ub = W[VX] * bx + W[VY] * W[BY] + W[VZ] * W[BZ];
+      U[MX] += eps_disp * (b2 * W[VX] - ub * bx);
+      U[MY] += eps_disp * (b2 * W[VY] - ub * W[BY]);
+      U[MZ] += eps_disp * (b2 * W[VZ] - ub * W[BZ]);
+      if (closure == Closure::adiabatic) U[EN] += electric_energy(W);
+    }
     return U;
   }
 
-  /// Total energy density of a primitive state (adiabatic closure) [J/m^3].
+  /// Total energy density of a primitive state (adiabatic closure) without the electric
+  /// energy of the displacement current [J/m^3].
   [[nodiscard]] real total_energy(const State& W) const {
     return W[P] / (gamma - 1) +
            0.5 * W[RHO] * (W[VX] * W[VX] + W[VY] * W[VY] + W[VZ] * W[VZ]) +
@@ -112,6 +192,13 @@ struct Mhd {
     } else {
       F[EN] = 0;
     }
+    if (eps_disp > 0) {  // electric stress eps (|E|^2/2 I - E E), x row
+      const auto e = electric_field(W);
+      const real e2 = e[0] * e[0] + e[1] * e[1] + e[2] * e[2];
+      F[MX] += eps_disp * (0.5 * e2 - e[0] * e[0]);
+      F[MY] -= eps_disp * e[0] * e[1];
+      F[MZ] -= eps_disp * e[0] * e[2];
+    }
     return F;
   }
 
@@ -121,12 +208,21 @@ struct Mhd {
                                          : sound_speed_iso * sound_speed_iso;
   }
 
-  /// Fast magnetosonic speed along x [m/s].
-  [[nodiscard]] real fast_speed(const State& W) const {
-    const real a2 = sound_speed2(W);
+  /// Fast magnetosonic speed along x [m/s] (with the displacement current when kept).
+  [[nodiscard]] real fast_speed(const State& W) const { return fast_speed(W, sound_speed2(W)); }
+
+  /// Fast speed along x for a given squared sound speed a2 [m^2/s^2] (models whose
+  /// pressure is not one gamma law pass their own).
+  [[nodiscard]] real fast_speed(const State& W, real a2) const {
     const real inv = 1 / (mu0 * W[RHO]);
     const real b2 = (bx * bx + W[BY] * W[BY] + W[BZ] * W[BZ]) * inv;
     const real bx2 = bx * bx * inv;
+    if (eps_disp > 0) {
+      const real e = eps_disp * mu0;  // 1/c^2
+      const real den = 1 + e * b2;
+      const real s = a2 + b2 + e * a2 * bx2;
+      return std::sqrt((s + std::sqrt(std::max(s * s - 4 * den * a2 * bx2, real(0)))) / (2 * den));
+    }
     const real s = a2 + b2;
     return std::sqrt(0.5 * (s + std::sqrt(std::max(s * s - 4 * a2 * bx2, real(0)))));
   }
@@ -165,12 +261,11 @@ struct Mhd {
   [[nodiscard]] State gradient_flux(const State& Wl, const State& Wr, real dx) const {
     State F{};
     if (resistivity > 0) {
-      const real eta_m = resistivity / mu0;
-      const real dby = (Wr[BY] - Wl[BY]) / dx, dbz = (Wr[BZ] - Wl[BZ]) / dx;
-      const real by = 0.5 * (Wl[BY] + Wr[BY]), bz = 0.5 * (Wl[BZ] + Wr[BZ]);
-      F[BY] = -eta_m * dby;
-      F[BZ] = -eta_m * dbz;
-      if (closure == Closure::adiabatic) F[EN] = -eta_m / mu0 * (by * dby + bz * dbz);
+      const FieldGradientFlux f =
+          field_gradient_flux(resistivity / mu0, 0, mu0, Wl[BY], Wl[BZ], Wr[BY], Wr[BZ], dx);
+      F[BY] = f.by;
+      F[BZ] = f.bz;
+      if (closure == Closure::adiabatic) F[EN] = f.energy;
     }
     if (viscosity > 0) {
       const real rho = 0.5 * (Wl[RHO] + Wr[RHO]);
@@ -212,6 +307,7 @@ struct Mhd {
     e.kinetic = 0.5 * W[RHO] * (W[VX] * W[VX] + W[VY] * W[VY] + W[VZ] * W[VZ]);
     e.thermal = closure == Closure::adiabatic ? W[P] / (gamma - 1) : 0.0;
     e.magnetic = magnetic_energy(W[BY], W[BZ]);
+    e.electric = electric_energy(W);
     return e;
   }
 

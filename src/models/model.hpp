@@ -34,13 +34,42 @@
 ///        extra time-step limits of one cell (diffusion, whistler, ...)
 ///   EnergyParts energy_density(const State& W) const;
 ///        kinetic, thermal, magnetic and electric energy densities (energy budgets)
+///   static std::vector<VariableInfo> diagnostic_info();
+///   void diagnostics(const Grid& grid, const Field<State>& U, real* out) const;
+///        whole-tube numbers the runner writes to /history with every record, one column
+///        per diagnostic_info() entry (e.g. a constraint residual such as Gauss's law);
+///        reads the interior cells of the conservative state only, reduces in a fixed order
+///
+/// Optional whole-grid members (they need neighbouring cells and the ends; `fill` is a
+/// GhostFill that sets the ghost cells of a primitive field as the run's two ends do):
+///   bool grid_coupled() const;
+///   void recover_primitives(const Grid& g, const Field<State>& U, Field<State>& W,
+///                           const GhostFill<State>& fill, real t) const;
+///   void complete_conservatives(const Grid& g, Field<State>& W, Field<State>& U,
+///                               const GhostFill<State>& fill, real t) const;
+///        for models whose conservative variables are not a function of one cell's
+///        primitives (electron inertia evolves B - d_e^2 d2B/dx2): the generic code first
+///        converts cell by cell, then, when grid_coupled() is true, calls these to finish
+///        the conversion over the whole grid (every stage, before any output, and for the
+///        initial state). Detected by HasGridRecovery.
+///   bool split_step_active() const;
+///   std::array<State, 2> split_step(const Grid& g, Field<State>& U, real t, real dt,
+///                                   const GhostFill<State>& fill) const;
+///        a whole-grid update applied by Strang splitting around the Runge-Kutta stages
+///        (half a step before, half after), e.g. an implicit or sub-cycled stiff term
+///        such as the Hall electric field. It returns the time-integrated fluxes through
+///        face 0 and face n (for budgets), and must leave U admissible. Skipped while
+///        split_step_active() is false. Detected by HasSplitStep (below); run by the Stepper.
 #include <algorithm>
+#include <array>
 #include <concepts>
+#include <functional>
 #include <limits>
 #include <string>
 #include <vector>
 
 #include "core/types.hpp"
+#include "grid/grid.hpp"
 
 namespace tw {
 
@@ -134,6 +163,49 @@ concept HasSource = requires(const M m, const typename M::State& s, real x, real
 template <class M>
 concept HasEnergyDensity = requires(const M m, const typename M::State& s) {
   { m.energy_density(s) } -> std::same_as<EnergyParts>;
+};
+
+/// Sets the ghost cells of a primitive field at time t from its interior, as the two ends
+/// of the run do (both boundary objects); handed to a model's whole-grid members.
+template <class State>
+using GhostFill = std::function<void(Field<State>& W, real t)>;
+
+template <class M>
+concept HasGridRecovery = requires(const M m, const Grid& g, const Field<typename M::State>& Uc,
+                                   Field<typename M::State>& W, Field<typename M::State>& U,
+                                   const GhostFill<typename M::State>& fill, real t) {
+  { m.grid_coupled() } -> std::same_as<bool>;
+  { m.recover_primitives(g, Uc, W, fill, t) };
+  { m.complete_conservatives(g, W, U, fill, t) };
+};
+
+template <class M>
+concept HasSplitStep = requires(const M m, const Grid& g, Field<typename M::State>& U, real t, real dt,
+                                const GhostFill<typename M::State>& fill) {
+  { m.split_step_active() } -> std::same_as<bool>;
+  { m.split_step(g, U, t, dt, fill) } -> std::same_as<std::array<typename M::State, 2>>;
+};
+
+/// True when the model's whole-grid conversion must run (false for models without it).
+template <class M>
+bool grid_coupled(const M& m) {
+  if constexpr (HasGridRecovery<M>) return m.grid_coupled();
+  (void)m;
+  return false;
+}
+
+/// True when the model's split step must run.
+template <class M>
+bool split_step_active(const M& m) {
+  if constexpr (HasSplitStep<M>) return m.split_step_active();
+  (void)m;
+  return false;
+}
+
+template <class M>
+concept HasDiagnostics = requires(const M m, const Grid& g, const Field<typename M::State>& U, real* out) {
+  { M::diagnostic_info() } -> std::same_as<std::vector<VariableInfo>>;
+  { m.diagnostics(g, U, out) };
 };
 
 template <class M>

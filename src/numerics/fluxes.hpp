@@ -79,3 +79,6 @@ bool flux_supported(FluxKind k) {
 }
 
 }  // namespace tw
+
+// Model-specific solvers that register themselves with FluxFor (after the catalogue above).
+#include "numerics/twofluid_flux.hpp"  // IWYU pragma: export

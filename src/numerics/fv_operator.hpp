@@ -5,7 +5,9 @@
 /// cell with an inadmissible state.
 ///
 /// Passes, each an OpenMP loop over cells or faces inside one parallel region:
-///   1. primitive variables of interior cells (and their admissibility);
+///   1. primitive variables of interior cells (and their admissibility); for a model whose
+///      conversion couples cells (M::grid_coupled(), e.g. electron inertia), the model's
+///      whole-grid recover_primitives() runs between the cell loop and the check;
 ///   2. ghost cells from the two boundary objects;
 ///   3. reconstruction of the two face values of each cell;
 ///   4. numerical flux at each face, plus the model's gradient flux;
@@ -118,6 +120,38 @@ class FvOperator {
   /// Primitive variables (ghosts included) of the last evaluation.
   [[nodiscard]] const Field<State>& primitives() const { return W_; }
 
+  /// Fill the ghost cells of a primitive field at time t, as both ends do.
+  void fill_ghosts(const M& m, Field<State>& W, real t) const {
+    left_->fill(m, grid_, Side::left, t, W);
+    right_->fill(m, grid_, Side::right, t, W);
+  }
+  /// The ghost fill as a callable for the model's whole-grid members (valid while this
+  /// operator and m live).
+  [[nodiscard]] GhostFill<State> ghost_fill(const M& m) const {
+    return [this, &m](Field<State>& W, real t) { fill_ghosts(m, W, t); };
+  }
+
+  /// Primitive variables of U into W (interior and ghosts, at time t): the conversion
+  /// evaluate() makes, for output and validation.
+  void primitives(const M& m, real t, const Field<State>& U, Field<State>& W) const {
+    const int n = grid_.n_cells;
+#pragma omp parallel for schedule(static) if (run_parallel(n))
+    for (int i = 0; i < n; ++i) W[i] = m.prim_from_cons(U[i]);
+    if constexpr (HasGridRecovery<M>)
+      if (m.grid_coupled()) m.recover_primitives(grid_, U, W, ghost_fill(m), t);
+    fill_ghosts(m, W, t);
+  }
+
+  /// Conservative variables of the interior of W into U (the ghosts of W are filled at
+  /// time t on the way): for initial states.
+  void conservatives(const M& m, real t, Field<State>& W, Field<State>& U) const {
+    const int n = grid_.n_cells;
+    for (int i = 0; i < n; ++i) U[i] = m.cons_from_prim(W[i]);
+    if constexpr (HasGridRecovery<M>)
+      if (m.grid_coupled()) m.complete_conservatives(grid_, W, U, ghost_fill(m), t);
+    fill_ghosts(m, W, t);
+  }
+
   /// Evaluate dU/dt at time t. `want_limits` also gathers the model's step limits.
   RhsReport<N> evaluate(const M& m, real t, const Field<State>& U, Field<State>& dUdt,
                         bool want_limits) {
@@ -127,19 +161,30 @@ class FvOperator {
     int bad = std::numeric_limits<int>::max();
     real smax = 0;
     std::vector<StepLimits> thread_limits;
-    const bool blocked = block_primitives_active(m);
-    const bool fused = block_kernel_active(m);
+    const bool coupled = grid_coupled(m);
+    const bool blocked = !coupled && block_primitives_active(m);
+    const bool fused = blocked && block_kernel_active(m);
 
 #pragma omp parallel if (run_parallel(n))
     {
       if (blocked) {
         primitives_pass_blocked(m, U, bad);
-      } else {
+      } else if (!coupled) {
 #pragma omp for schedule(static) reduction(min : bad)
         for (int i = 0; i < n; ++i) {
           W_[i] = m.prim_from_cons(U[i]);
           if (!m.admissible(W_[i])) bad = std::min(bad, i);
         }
+      } else {
+#pragma omp for schedule(static)
+        for (int i = 0; i < n; ++i) W_[i] = m.prim_from_cons(U[i]);
+        if constexpr (HasGridRecovery<M>) {
+#pragma omp single
+          m.recover_primitives(grid_, U, W_, ghost_fill(m), t);
+        }
+#pragma omp for schedule(static) reduction(min : bad)
+        for (int i = 0; i < n; ++i)
+          if (!m.admissible(W_[i])) bad = std::min(bad, i);
       }
 #pragma omp single
       {
@@ -202,6 +247,54 @@ class FvOperator {
       rep.bad_cell = bad;
       rep.bad_state = W_[bad];
     }
+    return rep;
+  }
+
+  /// A cheaper pass than evaluate() for choosing the step: primitive variables and their
+  /// admissibility, ghost cells, the largest signal speed of the cell states (interior and
+  /// the first ghost layer, not of reconstructed face states) and, on request, the model's
+  /// step limits. No fluxes. Used by the stepper for models with a split stiff source,
+  /// whose operator must be evaluated again after the first half step anyway.
+  RhsReport<N> survey(const M& m, real t, const Field<State>& U, bool want_limits) {
+    RhsReport<N> rep;
+    const int n = grid_.n_cells;
+    const real dx = grid_.dx();
+    int bad = std::numeric_limits<int>::max();
+    real smax = 0;
+    std::vector<StepLimits> thread_limits;
+#pragma omp parallel if (run_parallel(n))
+    {
+#pragma omp for schedule(static) reduction(min : bad)
+      for (int i = 0; i < n; ++i) {
+        W_[i] = m.prim_from_cons(U[i]);
+        if (!m.admissible(W_[i])) bad = std::min(bad, i);
+      }
+#pragma omp single
+      {
+        left_->fill(m, grid_, Side::left, t, W_);
+        right_->fill(m, grid_, Side::right, t, W_);
+      }
+      if (bad == std::numeric_limits<int>::max()) {
+#pragma omp for schedule(static) reduction(max : smax)
+        for (int i = -1; i <= n; ++i) smax = std::max(smax, m.signal_speeds(W_[i]).abs_max());
+      }
+      if constexpr (HasStepLimits<M>) {
+        if (want_limits) {
+#pragma omp single
+          thread_limits.resize(static_cast<std::size_t>(omp_threads()));
+          StepLimits& mine = thread_limits[static_cast<std::size_t>(omp_thread())];
+#pragma omp for schedule(static)
+          for (int i = 0; i < n; ++i) m.step_limits(dx, W_[i], mine);
+        }
+      }
+    }
+    for (const auto& l : thread_limits) rep.limits.merge(l);
+    rep.max_speed = smax;
+    if (bad != std::numeric_limits<int>::max()) {
+      rep.bad_cell = bad;
+      rep.bad_state = W_[bad];
+    }
+    (void)dx;
     return rep;
   }
 

@@ -29,9 +29,16 @@ struct RusanovFlux {
   template <Model M>
   FaceFlux<M::n_vars> operator()(const M& m, const typename M::State& WL,
                                  const typename M::State& WR) const {
-    constexpr int N = M::n_vars;
     const SpeedRange a = m.signal_speeds(WL), b = m.signal_speeds(WR);
-    const real s = std::max(a.abs_max(), b.abs_max());
+    return bounded(m, WL, WR, std::min(a.min, b.min), std::max(a.max, b.max));
+  }
+  /// The flux with given bounds sl <= sr on the signal speeds (s = max(-sl, sr)); lets a
+  /// model share bounds between sub-systems (the two-fluid model's fluids).
+  template <Model M>
+  static FaceFlux<M::n_vars> bounded(const M& m, const typename M::State& WL,
+                                     const typename M::State& WR, real sl, real sr) {
+    constexpr int N = M::n_vars;
+    const real s = std::max(-sl, sr);
     const auto FL = m.flux(WL), FR = m.flux(WR);
     const auto UL = m.cons_from_prim(WL), UR = m.cons_from_prim(WR);
     FaceFlux<N> out;
@@ -46,9 +53,14 @@ struct HllFlux {
   template <Model M>
   FaceFlux<M::n_vars> operator()(const M& m, const typename M::State& WL,
                                  const typename M::State& WR) const {
-    constexpr int N = M::n_vars;
     const SpeedRange a = m.signal_speeds(WL), b = m.signal_speeds(WR);
-    const real sl = std::min(a.min, b.min), sr = std::max(a.max, b.max);
+    return bounded(m, WL, WR, std::min(a.min, b.min), std::max(a.max, b.max));
+  }
+  /// The flux with given bounds sl <= sr on the signal speeds (see RusanovFlux::bounded).
+  template <Model M>
+  static FaceFlux<M::n_vars> bounded(const M& m, const typename M::State& WL,
+                                     const typename M::State& WR, real sl, real sr) {
+    constexpr int N = M::n_vars;
     FaceFlux<N> out;
     out.speed = std::max(-sl, sr);
     if (sl >= 0) {

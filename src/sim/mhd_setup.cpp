@@ -4,6 +4,7 @@
 #include <sstream>
 
 #include "core/constants.hpp"
+#include "core/plasma_params.hpp"
 #include "models/eigen_modes.hpp"
 
 namespace tw {
@@ -14,17 +15,71 @@ void declare_mhd_keys(io::Schema& schema) {
                "energy closure: gamma-law (adiabatic) or fixed temperature (isothermal)")
       .def("adiabatic");
   model.real("gamma", "", "ratio of specific heats of the adiabatic closure").above(1.0).at_most(3.0).def(5.0 / 3.0);
-  model.real("resistivity", "ohm m", "electrical resistivity eta (constant)").non_negative().def(0.0);
+  model.real("resistivity", "ohm m", "electrical resistivity eta (resistivity_model: constant)").non_negative().def(0.0);
+  model.choice("resistivity_model", {"constant", "spitzer"},
+               "resistivity: the constant model.resistivity, or the transverse Spitzer value "
+               "from the background n_e and T_e at x_min (SI units only)")
+      .def("constant");
+  model.real("coulomb_logarithm", "", "spitzer: Coulomb logarithm ln Lambda (default: the NRL formula from n_e and T_e)")
+      .above(1.0);
   model.real("viscosity", "m^2/s", "kinematic viscosity nu (constant)").non_negative().def(0.0);
+  model.boolean("displacement_current",
+                "keep the displacement current (Boris correction): shear Alfvén waves travel at "
+                "v_A/sqrt(1 + v_A^2/c^2)")
+      .def(false);
+  model.real("light_speed", "m/s",
+             "a reduced light speed c (default: the physical c of the unit system): of the displacement "
+             "current (mhd, hall), of Maxwell's equations (two-fluid)")
+      .positive();
 
   io::Section& init = schema.root().section("initial", "the state at t = 0");
   init.choice("mode", {"fast", "alfven", "slow", "entropy"}, "wave: which linear MHD wave").def("alfven");
-  init.choice("direction", {"forward", "backward"}, "wave: travelling toward +x (forward) or -x").def("forward");
+  init.choice("direction", {"forward", "backward", "standing"},
+              "wave, circular: travelling toward +x (forward) or -x (backward); wave: or a standing "
+              "Alfvén wave (standing: the field pattern at rest, the sum of both directions)")
+      .def("forward");
   init.real("amplitude", "", "wave: peak perturbation relative to the background scales "
-                             "(density rho0, velocities c_f, fields sqrt(mu0 rho0) c_f, pressure rho0 c_f^2)")
+                             "(density rho0, velocities c_f, fields sqrt(mu0 rho0) c_f, pressure rho0 c_f^2); "
+                             "circular: |delta B_perp| / |B0|; langmuir: delta n_e / n_e)")
       .positive()
       .def(1e-4);
-  init.real("wavelength", "m", "wave: wavelength (default: the tube length)").positive();
+  init.real("wavelength", "m", "wave, circular, langmuir: wavelength (default: the tube length)").positive();
+  init.choice("branch", {"right", "left", "linear"},
+              "circular: sense of rotation in time about B0, right (electron sense: the whistler "
+              "branch with Hall physics) or left (ion sense: the ion-cyclotron branch); two-fluid "
+              "also linear (R and L of half the amplitude each: polarised along y)")
+      .def("right");
+}
+
+CircularWave read_circular_wave(const io::RunFile& rf, const CaseSetup& c, const Mhd& m, const Mhd::State& W0) {
+  if (rf.given("initial.mode")) rf.fail("initial.mode", "only the wave kind takes 'mode'");
+  if (m.bx == 0 || W0[Mhd::BY] != 0 || W0[Mhd::BZ] != 0)
+    rf.fail("plasma.field_angle_deg", "a circular wave is exact only along the background field: set "
+                                      "plasma.field_angle_deg to 0 (or 180) and plasma.field > 0");
+  CircularWave w;
+  const real lambda = rf.has("initial.wavelength") ? rf.get_real("initial.wavelength") : c.grid.length;
+  w.k = 2 * constants::pi / lambda;
+  if (rf.get_string("initial.direction") == "standing")
+    rf.fail("initial.direction", "a circular wave travels: choose forward or backward");
+  w.direction = rf.get_string("initial.direction") == "forward" ? 1 : -1;
+  if (rf.get_string("initial.branch") == "linear")
+    rf.fail("initial.branch", "linear (R + L) is available for the two-fluid model only");
+  w.right = rf.get_string("initial.branch") == "right";
+  w.db = rf.get_real("initial.amplitude") * std::abs(m.bx);
+  w.x0 = c.grid.x_min;
+  return w;
+}
+
+std::array<real, 4> CircularWave::at(real x, real bx, real mu0, real rho_eff, real omega) const {
+  // b = B_y + i B_z = db exp(i sigma d k (x - x0)) at t = 0, rotating in time as
+  // exp(-i sigma omega t): sigma = +sign(B_x) is the ion (left) sense about B0.
+  const real sgn = bx > 0 ? 1.0 : -1.0;
+  const real sigma = right ? -sgn : sgn;
+  const real th = sigma * direction * k * (x - x0);
+  const real by = db * std::cos(th), bz = db * std::sin(th);
+  // Ion momentum: rho_eff du/dt = B_x/mu0 db/dx, so u_perp = -d B_x k / (mu0 rho_eff omega) b.
+  const real f = -direction * bx * k / (mu0 * rho_eff * omega);
+  return {f * by, f * bz, by, bz};
 }
 
 void read_mhd_fluid(const io::RunFile& rf, const CaseSetup& c, Mhd& m) {
@@ -47,7 +102,84 @@ void read_mhd_fluid(const io::RunFile& rf, const CaseSetup& c, Mhd& m) {
     m.sound_speed_iso = std::sqrt(a2);
   }
   m.resistivity = rf.get_real("model.resistivity");
+  if (rf.get_string("model.resistivity_model") == "spitzer") {
+    if (rf.given("model.resistivity"))
+      rf.fail("model.resistivity", "give a constant resistivity or resistivity_model: spitzer, not both");
+    if (c.units.normalized) rf.fail("model.resistivity_model", "the Spitzer resistivity needs SI units (units: si)");
+    const PlasmaPoint p = c.plasma.at(c.grid.x_min, c.units);
+    PlasmaInput in;
+    in.n_e = p.n_e;
+    in.B = c.plasma.field;
+    in.ion_mass = c.plasma.ion_mass;
+    in.Z = c.plasma.charge;
+    in.Te_eV = p.t_e / c.units.energy_per_eV;
+    in.Ti_eV = p.t_i / c.units.energy_per_eV;
+    if (rf.has("model.coulomb_logarithm")) in.ln_lambda = rf.get_real("model.coulomb_logarithm");
+    if (in.Te_eV <= 0) rf.fail("plasma.electron_temperature", "the Spitzer resistivity needs T_e > 0");
+    if (in.B <= 0)
+      rf.fail("plasma.field", "the transverse Spitzer resistivity is for a magnetised plasma: plasma.field must be > 0");
+    const PlasmaParameters pp = derive_plasma_parameters(in);
+    if (!pp.eta_perp) {
+      std::string why;
+      for (const auto& n : pp.notes) why += " " + n;
+      rf.fail("model.resistivity_model", "the Spitzer resistivity is undefined for this plasma:" + why);
+    }
+    m.resistivity = *pp.eta_perp;
+  } else if (rf.given("model.coulomb_logarithm")) {
+    rf.fail("model.coulomb_logarithm", "only resistivity_model: spitzer uses a Coulomb logarithm");
+  }
   m.viscosity = rf.get_real("model.viscosity");
+  if (rf.get_bool("model.displacement_current")) {
+    real light = c.units.c;
+    if (rf.has("model.light_speed")) {
+      const real reduced = rf.get_real("model.light_speed");
+      if (reduced > light * (1 + 1e-12)) {
+        std::ostringstream msg;
+        msg << "the light speed may be reduced, not raised: it must not exceed c = " << light;
+        rf.fail("model.light_speed", msg.str());
+      }
+      light = reduced;
+    }
+    m.eps_disp = 1 / (m.mu0 * light * light);
+  } else if (rf.given("model.light_speed")) {
+    rf.fail("model.light_speed", "only used with model.displacement_current: true");
+  }
+}
+
+real displacement_light_speed(const Mhd& m) { return m.eps_disp > 0 ? 1 / std::sqrt(m.mu0 * m.eps_disp) : 0.0; }
+
+std::vector<io::ParameterValue> displacement_parameters(const Mhd& m, const CaseSetup& c) {
+  const real cb = displacement_light_speed(m);
+  const std::string speed = c.units.unit("m/s");
+  const PlasmaPoint p = c.plasma.at(c.grid.x_min, c.units);
+  const real rho = p.n_e / c.plasma.charge * m.particle_mass;
+  const real va = c.plasma.field / std::sqrt(m.mu0 * rho);
+  const real va_corr = cb > 0 ? va / std::sqrt(1 + va * va / (cb * cb)) : va;
+  return {
+      {"displacement_light_speed", cb, speed,
+       "light speed of the displacement current (Boris correction; reduced where below light_speed; 0 = neglected)"},
+      {"light_speed_reduction", cb > 0 ? cb / c.units.c : 0.0, "1", "displacement_light_speed / light_speed (1 = physical, 0 = neglected)"},
+      {"alfven_speed_displacement", va_corr, speed,
+       "background Alfvén speed with the displacement current, v_A/sqrt(1 + v_A^2/c^2) at x_min (v_A without it)"},
+  };
+}
+
+std::vector<std::string> displacement_warnings(const Mhd& m, const CaseSetup& c) {
+  std::vector<std::string> w;
+  const real cb = displacement_light_speed(m);
+  if (cb > 0 && cb < c.units.c * (1 - 1e-12)) {
+    const PlasmaPoint p = c.plasma.at(c.grid.x_min, c.units);
+    const real rho = p.n_e / c.plasma.charge * m.particle_mass;
+    const real va = c.plasma.field / std::sqrt(m.mu0 * rho);
+    std::ostringstream msg;
+    msg.precision(4);
+    msg << "the light speed is reduced to c_B = " << cb << " m/s (c/c_B = " << c.units.c / cb
+        << "): Alfvén and fast waves slow to v_A/sqrt(1 + v_A^2/c^2) = " << va / std::sqrt(1 + va * va / (cb * cb))
+        << " m/s here, against " << va / std::sqrt(1 + va * va / (c.units.c * c.units.c))
+        << " m/s with the physical light speed";
+    w.push_back(msg.str());
+  }
+  return w;
 }
 
 Mhd ModelSetup<Mhd>::make(const io::RunFile& rf, const CaseSetup& c) {
@@ -105,17 +237,15 @@ ModeSet primitive_modes_mhd(const Mhd& m, const Mhd::State& W) {
   return modes;
 }
 
-namespace {
-
 /// The adiabatic closure needs p > 0 in every cell. A cold plasma (both temperatures default
 /// to 0) is the usual cause; name the keys that set the pressure there, rather than leaving
 /// it to the generic "not physical" check.
-void require_pressure(const io::RunFile& rf, const CaseSetup& c, const Field<Mhd::State>& W) {
+void require_pressure(const io::RunFile& rf, const CaseSetup& c, const std::function<real(int)>& pressure) {
   const Grid& g = c.grid;
   for (int i = 0; i < g.n_cells; ++i) {
-    if (W[i][Mhd::P] > 0) continue;
+    if (pressure(i) > 0) continue;
     std::ostringstream msg;
-    msg << "the adiabatic closure needs a pressure > 0, but it is " << W[i][Mhd::P] << " at x = "
+    msg << "the adiabatic closure needs a pressure > 0, but it is " << pressure(i) << " at x = "
         << g.x_centre(i) << " m (cell " << i << "): ";
     if (rf.get_string("initial.kind") == "riemann") {
       const real x0 = rf.has("initial.position") ? rf.get_real("initial.position") : g.x_min + 0.5 * g.length;
@@ -131,20 +261,41 @@ void require_pressure(const io::RunFile& rf, const CaseSetup& c, const Field<Mhd
   }
 }
 
-}  // namespace
-
 bool ModelSetup<Mhd>::perturb(const Mhd& m, const io::RunFile& rf, const CaseSetup& c, Field<State>& W) {
   const std::string kind = rf.get_string("initial.kind");
+  if (kind != "wave" && kind != "circular" && kind != "uniform" && kind != "riemann") return false;  // another model's
+  if (kind != "circular" && rf.given("initial.branch"))
+    rf.fail("initial.branch", "only the circular kind takes 'branch'");
+  if (kind == "circular") {
+    // Exact at any amplitude: the wave speed is the Alfvén speed along x (with the
+    // displacement current, whose inertia eps B_x^2 acts on u_perp; see models/mhd.hpp).
+    if (m.closure == Closure::adiabatic) require_pressure(rf, c, [&](int i) { return W[i][Mhd::P]; });
+    const State W0 = W[0];
+    const CircularWave wave = read_circular_wave(rf, c, m, W0);
+    const real rho_eff = W0[Mhd::RHO] + m.eps_disp * m.bx * m.bx;
+    const real omega = wave.k * m.alfven_speed_x(W0[Mhd::RHO]);
+    for (int i = 0; i < c.grid.n_cells; ++i) {
+      const auto d = wave.at(c.grid.x_centre(i), m.bx, m.mu0, rho_eff, omega);
+      W[i][Mhd::VY] += d[0];
+      W[i][Mhd::VZ] += d[1];
+      W[i][Mhd::BY] += d[2];
+      W[i][Mhd::BZ] += d[3];
+    }
+    return true;
+  }
   if (kind != "wave") {
     for (const char* k : {"mode", "direction", "amplitude", "wavelength"})
       if (rf.given(std::string("initial.") + k))
-        rf.fail(std::string("initial.") + k, "only the wave kind takes '" + std::string(k) + "'");
+        rf.fail(std::string("initial.") + k, "only the wave and circular kinds take '" + std::string(k) + "'");
   }
-  if (m.closure == Closure::adiabatic) require_pressure(rf, c, W);
+  if (m.closure == Closure::adiabatic) require_pressure(rf, c, [&](int i) { return W[i][Mhd::P]; });
   if (kind != "wave") return kind == "uniform" || kind == "riemann";
   const Grid& g = c.grid;
   const std::string mode = rf.get_string("initial.mode");
   const bool forward = rf.get_string("initial.direction") == "forward";
+  const bool standing = rf.get_string("initial.direction") == "standing";
+  if (standing && mode != "alfven")
+    rf.fail("initial.direction", "a standing wave is available for the Alfvén mode only");
   const real amp = rf.get_real("initial.amplitude");
   const real lambda = rf.has("initial.wavelength") ? rf.get_real("initial.wavelength") : g.length;
   const real k = 2 * constants::pi / lambda;
@@ -166,7 +317,9 @@ bool ModelSetup<Mhd>::perturb(const Mhd& m, const io::RunFile& rf, const CaseSet
     const real ey = bt > 0 ? -W0[Mhd::BZ] / bt : 1.0, ez = bt > 0 ? W0[Mhd::BY] / bt : 0.0;
     const real sgn = m.bx > 0 ? 1.0 : -1.0;
     const real db = std::sqrt(m.mu0 * rho) * cf;  // field scale
-    const real dv = (forward ? -sgn : sgn) * db / std::sqrt(m.mu0 * rho);
+    // The velocity is across B0, where the displacement current adds the inertia eps |B0|^2.
+    const real rho_eff = rho + m.eps_disp * (m.bx * m.bx + bt * bt);
+    const real dv = standing ? 0.0 : (forward ? -sgn : sgn) * db / std::sqrt(m.mu0 * rho_eff);
     r[Mhd::BY] = ey * db;
     r[Mhd::BZ] = ez * db;
     r[Mhd::VY] = ey * dv;
@@ -222,11 +375,18 @@ std::vector<io::ParameterValue> ModelSetup<Mhd>::parameters(const Mhd& m, const 
       {"resistivity", m.resistivity, unit("ohm m"), "electrical resistivity"},
       {"viscosity", m.viscosity, unit("m^2/s"), "kinematic viscosity"},
   };
+  for (auto& d : displacement_parameters(m, c)) p.push_back(d);
   return p;
 }
 
 FluxKind ModelSetup<Mhd>::flux(const io::RunFile& rf, const Mhd& m) {
-  return resolve_flux(rf, m.closure == Closure::adiabatic, false);
+  if (m.eps_disp > 0 && rf.get_string("numerics.flux") == "hlld")
+    rf.fail("numerics.flux", "hlld does not include the displacement current; use hll or rusanov");
+  return resolve_flux(rf, m.closure == Closure::adiabatic && m.eps_disp == 0, false);
+}
+
+std::vector<std::string> ModelSetup<Mhd>::check_warnings(const Mhd& m, const CaseSetup& c) {
+  return displacement_warnings(m, c);
 }
 
 }  // namespace tw

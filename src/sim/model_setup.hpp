@@ -14,6 +14,15 @@
 ///        resolved model parameters for the output file
 ///   static FluxKind flux(const io::RunFile&, const M&);
 ///        the numerical flux to use (resolving "auto", rejecting unavailable ones)
+///
+/// Optional (detected with HasCheckWarnings):
+///   static std::vector<std::string> check_warnings(const M&, const CaseSetup&);
+///        sentences `tubewave check` prints as warnings (a reduced light speed, a stiff
+///        limit stepped past, an unresolved length, ...)
+#include <concepts>
+#include <string>
+#include <vector>
+
 #include "grid/grid.hpp"
 #include "io/output.hpp"
 #include "io/runfile.hpp"
@@ -23,5 +32,10 @@ namespace tw {
 
 template <class M>
 struct ModelSetup;
+
+template <class M>
+concept HasCheckWarnings = requires(const M& m, const CaseSetup& c) {
+  { ModelSetup<M>::check_warnings(m, c) } -> std::same_as<std::vector<std::string>>;
+};
 
 }  // namespace tw

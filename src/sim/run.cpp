@@ -1,9 +1,11 @@
 #include "sim/run.hpp"
 
 #include "sim/case.hpp"
+#include "sim/hall_setup.hpp"
 #include "sim/initial.hpp"
 #include "sim/mhd_setup.hpp"
 #include "sim/runner.hpp"
+#include "sim/twofluid_setup.hpp"
 
 namespace tw {
 
@@ -12,7 +14,7 @@ namespace {
 /// The model catalogue: the `model.equations` and `model.form` choices. A new model adds
 /// its name here, its keys in build_schema() and a branch in dispatch().
 const std::vector<std::string>& equation_names() {
-  static const std::vector<std::string> n{"mhd"};
+  static const std::vector<std::string> n{"mhd", "hall", "two-fluid"};
   return n;
 }
 const std::vector<std::string>& form_names() {
@@ -23,12 +25,18 @@ const std::vector<std::string>& form_names() {
 io::Schema build_schema() {
   io::Schema s;
   io::Section& model = s.root().section("model", "which equations are solved");
-  model.choice("equations", equation_names(), "the model: ideal/resistive MHD").def("mhd");
+  model.choice("equations", equation_names(),
+               "the model: ideal/resistive MHD (mhd), Hall MHD (hall), or ion and electron fluids with "
+               "Maxwell's equations (two-fluid)")
+      .def("mhd");
   model.choice("form", form_names(), "full nonlinear equations").def("nonlinear");
   declare_case_keys(s);
   std::vector<std::string> kinds = mhd_initial_kinds();
+  for (const auto& k : twofluid_initial_kinds()) kinds.push_back(k);
   declare_initial_keys(s, kinds);
   declare_mhd_keys(s);
+  declare_hall_keys(s);
+  declare_twofluid_keys(s);
   return s;
 }
 
@@ -36,8 +44,20 @@ template <class F>
 auto dispatch(const io::RunFile& rf, CaseSetup c, F&& f) {
   c.equations = rf.get_string("model.equations");
   c.form = rf.get_string("model.form");
+  if (c.equations != "hall")
+    for (const auto& k : hall_only_keys())
+      if (rf.given("model." + k)) rf.fail("model." + k, "only the hall model takes '" + k + "'");
+  if (c.equations != "two-fluid") reject_two_fluid_keys(rf, c.equations);
   if (c.equations == "mhd") {
     CaseRunner<Mhd> runner(rf, std::move(c));
+    return f(runner);
+  }
+  if (c.equations == "hall") {
+    CaseRunner<HallMhd> runner(rf, std::move(c));
+    return f(runner);
+  }
+  if (c.equations == "two-fluid") {
+    CaseRunner<TwoFluid> runner(rf, std::move(c));
     return f(runner);
   }
   rf.fail("model.equations", "model '" + c.equations + "' is not built into this tubewave");

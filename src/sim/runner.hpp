@@ -98,13 +98,15 @@ class CaseRunner {
             << " m (cell " << i << "): check densities, pressures and temperatures";
         rf.fail("initial", msg.str());
       }
-      U_[i] = model_.cons_from_prim(W[i]);
     }
     scheme_ = c_.scheme;
     scheme_.flux = ModelSetup<M>::flux(rf, model_);
     auto left = make_boundary<M>(rf, c_.left);
     auto right = make_boundary<M>(rf, c_.right);
     stepper_.emplace(FvOperator<M>(g, scheme_, left, right), c_.time);
+    // Conservative variables (over the whole grid, with the ends, for models that need it).
+    stepper_->op().conservatives(model_, 0, W, U_);
+    prim_ = Field<State>(g);
     // Probe interpolation: between the two cell centres around each probe.
     for (real x : c_.output.probes) {
       real s = (x - g.x_min) / g.dx() - 0.5;
@@ -151,6 +153,8 @@ class CaseRunner {
       r.warnings.push_back("weno5 is fifth order in space; ssp-rk3 keeps its time error comparable");
     if (scheme_.reconstruction == Reconstruction::plm && scheme_.limiter == Limiter::none)
       r.warnings.push_back("unlimited slopes oscillate at discontinuities; use them for smooth waves only");
+    if constexpr (HasCheckWarnings<M>)
+      for (auto& w : ModelSetup<M>::check_warnings(model_, c_)) r.warnings.push_back(std::move(w));
     return r;
   }
 
@@ -169,6 +173,8 @@ class CaseRunner {
       hist.push_back({v.name + "_inflow", c_.units.unit(v.units),
                       "time-integrated net flux in through both ends (total - initial total, if conserved)"});
     }
+    if constexpr (HasDiagnostics<M>)
+      for (const auto& v : M::diagnostic_info()) hist.push_back({v.name, c_.units.unit(v.units), v.description});
     io::Series snaps = out.create_series("snapshots", cols, g.n_cells, 1, true);
     std::optional<io::Series> probes;
     if (!c_.output.probes.empty())
@@ -187,6 +193,7 @@ class CaseRunner {
       const bool h = hist_c.due(t);
       if (!(s || p || h)) return;
       stepper_->validate(model_, U_, t);
+      stepper_->op().primitives(model_, t, U_, prim_);
       if (s && t != t_snap_last) {
         append_snapshot(snaps, t, step);
         t_snap_last = t;
@@ -248,6 +255,7 @@ class CaseRunner {
       }
       if (outcome != "failed") {
         stepper_->validate(model_, U_, t);
+        stepper_->op().primitives(model_, t, U_, prim_);
         if (t != t_snap_last) {
           append_snapshot(snaps, t, step);
           t_snap_last = t;
@@ -258,6 +266,7 @@ class CaseRunner {
       outcome = "failed";
       message = e.what();
       t = e.t_good();
+      stepper_->op().primitives(model_, t, U_, prim_);
       if (t != t_snap_last) {  // the last good state, unless it is already the last snapshot
         append_snapshot(snaps, t, step);
         ++sum.snapshots;
@@ -322,7 +331,7 @@ class CaseRunner {
     buf_.assign(nout * static_cast<std::size_t>(n), 0);
     std::vector<real> o(nout);
     for (int i = 0; i < n; ++i) {
-      model_.to_output(model_.prim_from_cons(U_[i]), o.data());
+      model_.to_output(prim_[i], o.data());
       for (std::size_t k = 0; k < nout; ++k) buf_[k * static_cast<std::size_t>(n) + static_cast<std::size_t>(i)] = o[k];
     }
     s.append(t, step, buf_);
@@ -337,8 +346,8 @@ class CaseRunner {
     for (std::size_t p = 0; p < np; ++p) {
       const int i0 = probe_cell_[p];
       const real w = probe_weight_[p];
-      model_.to_output(model_.prim_from_cons(U_[i0]), a.data());
-      model_.to_output(model_.prim_from_cons(U_[std::min(i0 + 1, n - 1)]), b.data());
+      model_.to_output(prim_[i0], a.data());
+      model_.to_output(prim_[std::min(i0 + 1, n - 1)], b.data());
       for (std::size_t k = 0; k < nout; ++k) buf_[k * np + p] = (1 - w) * a[k] + w * b[k];
     }
     s.append(t, step, buf_);
@@ -355,6 +364,11 @@ class CaseRunner {
       buf_.push_back(total[k] * dx);
       buf_.push_back(bf[0][k] - bf[1][k]);
     }
+    if constexpr (HasDiagnostics<M>) {
+      std::vector<real> d(M::diagnostic_info().size());
+      model_.diagnostics(c_.grid, U_, d.data());
+      buf_.insert(buf_.end(), d.begin(), d.end());
+    }
     s.append(t, step, buf_);
   }
 
@@ -362,6 +376,7 @@ class CaseRunner {
   CaseSetup c_;
   M model_;
   Field<State> U_;
+  Field<State> prim_;  ///< primitives of U_ at the time of the latest output
   SpatialScheme scheme_;
   std::optional<Stepper<M>> stepper_;
   std::vector<int> probe_cell_;

@@ -50,3 +50,7 @@ add_test(NAME "post: the reader refuses an incomplete run file"
          COMMAND ${TW_PY} ${CMAKE_CURRENT_LIST_DIR}/check_reader.py ${TW_POST_RUN} ${TW_POST_DIR})
 set_tests_properties("post: the reader refuses an incomplete run file" PROPERTIES
                      FIXTURES_REQUIRED tw_post_run LABELS unit)
+
+add_test(NAME "post: Hall-MHD dispersion formulas match the reference values"
+         COMMAND ${TW_PY} ${CMAKE_CURRENT_LIST_DIR}/check_hall_dispersion.py)
+set_tests_properties("post: Hall-MHD dispersion formulas match the reference values" PROPERTIES LABELS unit)
