@@ -50,7 +50,7 @@ struct Block {
 /// Model constants, computed once per call exactly as the generic code computes them.
 struct Consts {
   // Mhd members.
-  real gamma, mu0, bx, a_iso;
+  real gamma, mu0, bx, a_iso, eps;
   // HlldFlux: the field in units with mu0 = 1.
   real sqrt_mu0, inv_sqrt_mu0, bx_h, inv_gm1, sgn;
 };
@@ -61,12 +61,29 @@ Consts make_consts(const Mhd& m) {
   c.mu0 = m.mu0;
   c.bx = m.bx;
   c.a_iso = m.sound_speed_iso;
+  c.eps = m.eps_disp;
   c.sqrt_mu0 = std::sqrt(m.mu0);
   c.inv_sqrt_mu0 = 1 / c.sqrt_mu0;
   c.bx_h = m.bx * c.inv_sqrt_mu0;
   c.inv_gm1 = 1 / (m.gamma - 1);
   c.sgn = c.bx_h > 0 ? 1.0 : (c.bx_h < 0 ? -1.0 : 0.0);
   return c;
+}
+
+// ---------------------------------------------------------------------------------------
+// The displacement current (Mhd::electric_field, Mhd::electric_energy).
+
+struct EField {
+  real x, y, z;
+};
+TW_ALWAYS_INLINE EField electric_field(const Consts& c, const real* W) {
+  const real bx = c.bx;
+  return {-(W[VY] * W[BZ] - W[VZ] * W[BY]), -(W[VZ] * bx - W[VX] * W[BZ]), -(W[VX] * W[BY] - W[VY] * bx)};
+}
+/// Only called with eps > 0, where Mhd::electric_energy computes this.
+TW_ALWAYS_INLINE real electric_energy(const Consts& c, const real* W) {
+  const EField e = electric_field(c, W);
+  return 0.5 * c.eps * (e.x * e.x + e.y * e.y + e.z * e.z);
 }
 
 // ---------------------------------------------------------------------------------------
@@ -80,7 +97,7 @@ struct CellBlock {
 
 /// Mhd::prim_from_cons and Mhd::admissible over one block. The seven output columns are
 /// separate restrict pointers so that the compiler sees they do not overlap.
-template <bool Adiabatic>
+template <bool Adiabatic, bool Disp>
 TW_ALWAYS_INLINE void primitives_compute(const Consts& c, const real (*__restrict u)[BF], std::int64_t* __restrict ok,
                                          real* __restrict w0, real* __restrict w1, real* __restrict w2,
                                          real* __restrict w3, real* __restrict w4, real* __restrict w5,
@@ -96,8 +113,24 @@ TW_ALWAYS_INLINE void primitives_compute(const Consts& c, const real (*__restric
     w[VZ] = u[VZ][j] * inv;
     w[BY] = u[BY][j];
     w[BZ] = u[BZ][j];
+    if constexpr (Disp) {
+      // (rho I + eps (B^2 I - B B)) u = m, inverted by Sherman-Morrison.
+      const real by = u[BY][j], bz = u[BZ][j];
+      const real b2 = bx * bx + by * by + bz * bz;
+      const real bm = bx * u[VX][j] + by * u[VY][j] + bz * u[VZ][j];
+      const real f = c.eps * bm * inv;
+      const real d = 1 / (rho + c.eps * b2);
+      w[VX] = (u[VX][j] + f * bx) * d;
+      w[VY] = (u[VY][j] + f * by) * d;
+      w[VZ] = (u[VZ][j] + f * bz) * d;
+    }
     if constexpr (Adiabatic) {
-      const real kin = 0.5 * (u[VX][j] * w[VX] + u[VY][j] * w[VY] + u[VZ][j] * w[VZ]);
+      real kin;
+      if constexpr (Disp) {
+        kin = 0.5 * rho * (w[VX] * w[VX] + w[VY] * w[VY] + w[VZ] * w[VZ]) + electric_energy(c, w);
+      } else {
+        kin = 0.5 * (u[VX][j] * w[VX] + u[VY][j] * w[VY] + u[VZ][j] * w[VZ]);
+      }
       const real mag = (bx * bx + u[BY][j] * u[BY][j] + u[BZ][j] * u[BZ][j]) / (2 * mu0);
       w[P] = (c.gamma - 1) * (u[P][j] - kin - mag);
     } else {
@@ -119,13 +152,13 @@ TW_ALWAYS_INLINE void primitives_compute(const Consts& c, const real (*__restric
 }
 
 /// One block of cells: U (AoS) -> primitive columns and W (AoS).
-template <bool Adiabatic>
+template <bool Adiabatic, bool Disp>
 TW_ALWAYS_INLINE void primitives_impl(const Consts& c, const real* __restrict U, real* __restrict W,
                                       real* __restrict cols, long stride, int nc, CellBlock& b) {
   for (int j = 0; j < nc; ++j)
 #pragma GCC unroll 7
     for (int k = 0; k < NV; ++k) b.u[k][j] = U[j * NV + k];
-  primitives_compute<Adiabatic>(c, b.u, b.ok, cols, cols + stride, cols + 2 * stride, cols + 3 * stride,
+  primitives_compute<Adiabatic, Disp>(c, b.u, b.ok, cols, cols + stride, cols + 2 * stride, cols + 3 * stride,
                                 cols + 4 * stride, cols + 5 * stride, cols + 6 * stride, nc);
   std::int64_t n_ok = 0;
   for (int j = 0; j < nc; ++j) n_ok += b.ok[j];
@@ -137,35 +170,35 @@ TW_ALWAYS_INLINE void primitives_impl(const Consts& c, const real* __restrict U,
 
 using PrimFn = void (*)(const Consts&, const real*, real*, real*, long, int, CellBlock&);
 
-template <bool Adiabatic>
+template <bool Adiabatic, bool Disp>
 void primitives_baseline(const Consts& c, const real* U, real* W, real* cols, long stride, int nc, CellBlock& b) {
-  primitives_impl<Adiabatic>(c, U, W, cols, stride, nc, b);
+  primitives_impl<Adiabatic, Disp>(c, U, W, cols, stride, nc, b);
 }
 #if TW_HAVE_AVX2_CLONES
-template <bool Adiabatic>
+template <bool Adiabatic, bool Disp>
 TW_TARGET_AVX2 void primitives_avx2(const Consts& c, const real* U, real* W, real* cols, long stride, int nc,
                                     CellBlock& b) {
-  primitives_impl<Adiabatic>(c, U, W, cols, stride, nc, b);
+  primitives_impl<Adiabatic, Disp>(c, U, W, cols, stride, nc, b);
 }
 #endif
 #if TW_HAVE_AVX512_CLONES
-template <bool Adiabatic>
+template <bool Adiabatic, bool Disp>
 TW_TARGET_AVX512 void primitives_avx512(const Consts& c, const real* U, real* W, real* cols, long stride, int nc,
                                     CellBlock& b) {
-  primitives_impl<Adiabatic>(c, U, W, cols, stride, nc, b);
+  primitives_impl<Adiabatic, Disp>(c, U, W, cols, stride, nc, b);
 }
 #endif
 
-template <bool Adiabatic>
+template <bool Adiabatic, bool Disp>
 PrimFn prim_fn(SimdIsa isa) {
 #if TW_HAVE_AVX512_CLONES
-  if (isa == SimdIsa::avx512) return &primitives_avx512<Adiabatic>;
+  if (isa == SimdIsa::avx512) return &primitives_avx512<Adiabatic, Disp>;
 #endif
 #if TW_HAVE_AVX2_CLONES
-  if (isa == SimdIsa::avx2) return &primitives_avx2<Adiabatic>;
+  if (isa == SimdIsa::avx2) return &primitives_avx2<Adiabatic, Disp>;
 #endif
   (void)isa;
-  return &primitives_baseline<Adiabatic>;
+  return &primitives_baseline<Adiabatic, Disp>;
 }
 
 // ---------------------------------------------------------------------------------------
@@ -415,7 +448,7 @@ struct GSide {
   real U[NV];       // cons_from_prim
 };
 
-template <bool Adiabatic>
+template <bool Adiabatic, bool Disp>
 TW_ALWAYS_INLINE GSide generic_side(const Consts& c, const real* W) {
   const real bx = c.bx, mu0 = c.mu0;
   const real rho = W[RHO], u = W[VX], v = W[VY], w = W[VZ], by = W[BY], bz = W[BZ];
@@ -425,8 +458,16 @@ TW_ALWAYS_INLINE GSide generic_side(const Consts& c, const real* W) {
   const real inv = 1 / (mu0 * W[RHO]);
   const real b2 = (bx * bx + W[BY] * W[BY] + W[BZ] * W[BZ]) * inv;
   const real bx2 = bx * bx * inv;
-  const real sum = a2 + b2;
-  const real cf = std::sqrt(0.5 * (sum + std::sqrt(max0(sum * sum - 4 * a2 * bx2))));
+  real cf;
+  if constexpr (Disp) {
+    const real ec = c.eps * mu0;  // 1/c^2
+    const real den = 1 + ec * b2;
+    const real sum = a2 + b2 + ec * a2 * bx2;
+    cf = std::sqrt((sum + std::sqrt(max0(sum * sum - 4 * den * a2 * bx2))) / (2 * den));
+  } else {
+    const real sum = a2 + b2;
+    cf = std::sqrt(0.5 * (sum + std::sqrt(max0(sum * sum - 4 * a2 * bx2))));
+  }
   s.smin = W[VX] - cf;
   s.smax = W[VX] + cf;
   // Mhd::flux and Mhd::cons_from_prim (magnetic_energy and total_energy inlined).
@@ -449,12 +490,27 @@ TW_ALWAYS_INLINE GSide generic_side(const Consts& c, const real* W) {
   s.U[BY] = W[BY];
   s.U[BZ] = W[BZ];
   s.U[P] = Adiabatic ? e : real(0);
+  if constexpr (Disp) {
+    // Mhd::cons_from_prim: the field momentum and electric energy.
+    const real bb = bx * bx + W[BY] * W[BY] + W[BZ] * W[BZ];
+    const real ub = W[VX] * bx + W[VY] * W[BY] + W[VZ] * W[BZ];
+    s.U[VX] = s.U[VX] + c.eps * (bb * W[VX] - ub * bx);
+    s.U[VY] = s.U[VY] + c.eps * (bb * W[VY] - ub * W[BY]);
+    s.U[VZ] = s.U[VZ] + c.eps * (bb * W[VZ] - ub * W[BZ]);
+    // Mhd::flux: the electric stress eps (|E|^2/2 I - E E), x row.
+    const EField ef = electric_field(c, W);
+    const real e2 = ef.x * ef.x + ef.y * ef.y + ef.z * ef.z;
+    s.F[VX] = s.F[VX] + c.eps * (0.5 * e2 - ef.x * ef.x);
+    s.F[VY] = s.F[VY] - c.eps * ef.x * ef.y;
+    s.F[VZ] = s.F[VZ] - c.eps * ef.x * ef.z;
+    if constexpr (Adiabatic) s.U[P] = s.U[P] + 0.5 * c.eps * e2;  // electric_energy
+  }
   return s;
 }
 
-template <bool Adiabatic>
+template <bool Adiabatic, bool Disp>
 TW_ALWAYS_INLINE real hll_face(const Consts& c, const real* WL, const real* WR, real* F) {
-  const GSide a = generic_side<Adiabatic>(c, WL), b = generic_side<Adiabatic>(c, WR);
+  const GSide a = generic_side<Adiabatic, Disp>(c, WL), b = generic_side<Adiabatic, Disp>(c, WR);
   const real sl = std::min(a.smin, b.smin), sr = std::max(a.smax, b.smax);
   const real speed = std::max(-sl, sr);
   const real inv = 1 / (sr - sl);
@@ -466,9 +522,9 @@ TW_ALWAYS_INLINE real hll_face(const Consts& c, const real* WL, const real* WR, 
   return speed;
 }
 
-template <bool Adiabatic>
+template <bool Adiabatic, bool Disp>
 TW_ALWAYS_INLINE real rusanov_face(const Consts& c, const real* WL, const real* WR, real* F) {
-  const GSide a = generic_side<Adiabatic>(c, WL), b = generic_side<Adiabatic>(c, WR);
+  const GSide a = generic_side<Adiabatic, Disp>(c, WL), b = generic_side<Adiabatic, Disp>(c, WR);
   // RusanovFlux: the HLL bounds, then the larger magnitude.
   const real s = std::max(-std::min(a.smin, b.smin), std::max(a.smax, b.smax));
 #pragma GCC unroll 7
@@ -538,7 +594,7 @@ TW_ALWAYS_INLINE void hlld_rest(const Consts& c, const real (*__restrict wl)[BF 
   }
 }
 
-template <FluxKind K, bool Adiabatic>
+template <FluxKind K, bool Adiabatic, bool Disp>
 TW_ALWAYS_INLINE void block_fluxes(const Consts& c, Block& b, int nf) {
   if constexpr (K == FluxKind::hlld) {
     hlld_sides(c, b.wl, b.wr, b.side[0], b.side[1], nf);
@@ -553,28 +609,28 @@ TW_ALWAYS_INLINE void block_fluxes(const Consts& c, Block& b, int nf) {
       wr[k] = b.wr[k][j + 1];
     }
     real s;
-    if constexpr (K == FluxKind::hll) s = hll_face<Adiabatic>(c, wl, wr, f);
-    else s = rusanov_face<Adiabatic>(c, wl, wr, f);
+    if constexpr (K == FluxKind::hll) s = hll_face<Adiabatic, Disp>(c, wl, wr, f);
+    else s = rusanov_face<Adiabatic, Disp>(c, wl, wr, f);
 #pragma GCC unroll 7
     for (int k = 0; k < NV; ++k) b.f[k][j] = f[k];
     b.speed[j] = s;
   }
 }
 
-template <FluxKind K, bool Adiabatic>
+template <FluxKind K, bool Adiabatic, bool Disp>
 void fluxes_baseline(const Consts& c, Block& b, int nf) {
-  block_fluxes<K, Adiabatic>(c, b, nf);
+  block_fluxes<K, Adiabatic, Disp>(c, b, nf);
 }
 #if TW_HAVE_AVX2_CLONES
-template <FluxKind K, bool Adiabatic>
+template <FluxKind K, bool Adiabatic, bool Disp>
 TW_TARGET_AVX2 void fluxes_avx2(const Consts& c, Block& b, int nf) {
-  block_fluxes<K, Adiabatic>(c, b, nf);
+  block_fluxes<K, Adiabatic, Disp>(c, b, nf);
 }
 #endif
 #if TW_HAVE_AVX512_CLONES
-template <FluxKind K, bool Adiabatic>
+template <FluxKind K, bool Adiabatic, bool Disp>
 TW_TARGET_AVX512 void fluxes_avx512(const Consts& c, Block& b, int nf) {
-  block_fluxes<K, Adiabatic>(c, b, nf);
+  block_fluxes<K, Adiabatic, Disp>(c, b, nf);
 }
 #endif
 
@@ -607,25 +663,32 @@ ReconFn pick_recon(Reconstruction r, Limiter l, SimdIsa isa) {
   return nullptr;
 }
 
-template <FluxKind K, bool Adiabatic>
+template <FluxKind K, bool Adiabatic, bool Disp>
 FluxFn flux_fn(SimdIsa isa) {
 #if TW_HAVE_AVX512_CLONES
-  if (isa == SimdIsa::avx512) return &fluxes_avx512<K, Adiabatic>;
+  if (isa == SimdIsa::avx512) return &fluxes_avx512<K, Adiabatic, Disp>;
 #endif
 #if TW_HAVE_AVX2_CLONES
-  if (isa == SimdIsa::avx2) return &fluxes_avx2<K, Adiabatic>;
+  if (isa == SimdIsa::avx2) return &fluxes_avx2<K, Adiabatic, Disp>;
 #endif
   (void)isa;
-  return &fluxes_baseline<K, Adiabatic>;
+  return &fluxes_baseline<K, Adiabatic, Disp>;
 }
 
-FluxFn pick_flux(FluxKind k, bool adiabatic, SimdIsa isa) {
+template <FluxKind K>
+FluxFn flux_variant(bool adiabatic, bool disp, SimdIsa isa) {
+  if (adiabatic) return disp ? flux_fn<K, true, true>(isa) : flux_fn<K, true, false>(isa);
+  return disp ? flux_fn<K, false, true>(isa) : flux_fn<K, false, false>(isa);
+}
+
+FluxFn pick_flux(FluxKind k, const Mhd& m, SimdIsa isa) {
+  const bool adiabatic = m.closure == Closure::adiabatic;
   switch (k) {
-    case FluxKind::hlld: return adiabatic ? flux_fn<FluxKind::hlld, true>(isa) : nullptr;
-    case FluxKind::hll:
-      return adiabatic ? flux_fn<FluxKind::hll, true>(isa) : flux_fn<FluxKind::hll, false>(isa);
-    case FluxKind::rusanov:
-      return adiabatic ? flux_fn<FluxKind::rusanov, true>(isa) : flux_fn<FluxKind::rusanov, false>(isa);
+    // HlldFlux does not use the model's functions, so the displacement current does not
+    // change it (the run-file setup refuses that combination anyway).
+    case FluxKind::hlld: return adiabatic ? flux_fn<FluxKind::hlld, true, false>(isa) : nullptr;
+    case FluxKind::hll: return flux_variant<FluxKind::hll>(adiabatic, m.eps_disp > 0, isa);
+    case FluxKind::rusanov: return flux_variant<FluxKind::rusanov>(adiabatic, m.eps_disp > 0, isa);
     case FluxKind::upwind: break;
   }
   return nullptr;
@@ -635,7 +698,10 @@ FluxFn pick_flux(FluxKind k, bool adiabatic, SimdIsa isa) {
 
 int MhdBlockKernel::primitives(const Mhd& m, const Mhd::State* U, Mhd::State* W, Columns cols, int begin,
                                int end) {
-  const PrimFn prim = m.closure == Closure::adiabatic ? prim_fn<true>(simd_isa()) : prim_fn<false>(simd_isa());
+  const bool adiabatic = m.closure == Closure::adiabatic, disp = m.eps_disp > 0;
+  const SimdIsa isa = simd_isa();
+  const PrimFn prim = adiabatic ? (disp ? prim_fn<true, true>(isa) : prim_fn<true, false>(isa))
+                                : (disp ? prim_fn<false, true>(isa) : prim_fn<false, false>(isa));
   const Consts c = make_consts(m);
   CellBlock b;
   int bad = -1;
@@ -649,9 +715,7 @@ int MhdBlockKernel::primitives(const Mhd& m, const Mhd::State* U, Mhd::State* W,
   return bad;
 }
 
-// The displacement current (eps_disp > 0) changes the primitive variables, the fluxes and
-// the fast speed; the kernels do not mirror it, so those runs take the generic passes.
-bool MhdBlockKernel::applies(const Mhd& m) { return m.eps_disp == 0; }
+bool MhdBlockKernel::applies(const Mhd& /*m*/) { return true; }
 
 bool MhdBlockKernel::supports(const Mhd& m, Reconstruction r, Limiter /*l*/, FluxKind k) {
   if (!applies(m) || r == Reconstruction::weno5) return false;
@@ -669,7 +733,7 @@ real MhdBlockKernel::faces(const Mhd& m, Reconstruction r, Limiter l, FluxKind k
   TW_ASSERT(supports(m, r, l, k), "scheme not supported by the block kernel");
   const SimdIsa isa = simd_isa();
   const ReconFn recon = pick_recon(r, l, isa);
-  const FluxFn flux = pick_flux(k, m.closure == Closure::adiabatic, isa);
+  const FluxFn flux = pick_flux(k, m, isa);
   const Consts c = make_consts(m);
   real smax = 0;
   Block b;
@@ -689,7 +753,7 @@ real MhdBlockKernel::faces(const Mhd& m, Reconstruction r, Limiter l, FluxKind k
 
 void MhdBlockKernel::fluxes(const Mhd& m, FluxKind k, int n, const Mhd::State* WL,
                            const Mhd::State* WR, Mhd::State* F, real* speed) {
-  const FluxFn flux = pick_flux(k, m.closure == Closure::adiabatic, simd_isa());
+  const FluxFn flux = pick_flux(k, m, simd_isa());
   TW_CHECK(flux != nullptr, "flux kind has no block kernel");
   const Consts c = make_consts(m);
   Block b;

@@ -47,9 +47,9 @@ struct MhdBlockKernel {
   /// Reals needed for the columns of a grid with n_total cells (ghosts included).
   static long columns_size(long n_total) { return n_total * Mhd::n_vars; }
 
-  /// True when the kernels mirror this configuration of the model: every one except the
-  /// displacement current (eps_disp > 0), which runs the generic passes. A new Mhd term
-  /// that the kernels do not reproduce must make this false while it is active.
+  /// True when the kernels mirror this configuration of the model (every one the Mhd type
+  /// can express today, the displacement current included). A new Mhd term that the
+  /// kernels do not reproduce must make this false while it is active.
   static bool applies(const Mhd& m);
 
   /// Primitive variables W[i] = m.prim_from_cons(U[i]) for the cells i in [begin, end)

@@ -86,11 +86,15 @@ std::vector<Mhd> models() {
   iso.sound_speed_iso = 0.7;
   iso.bx = 0.5;
   out.push_back(iso);
-  Mhd displacement;  // with the displacement current: not mirrored, the generic passes run
+  Mhd displacement;  // with the displacement current (a reduced light speed)
   displacement.mu0 = 1;
   displacement.bx = 0.75;
   displacement.eps_disp = 1.0 / (5 * 5);  // light speed 5 in these units
   out.push_back(displacement);
+  Mhd displacement_iso = displacement;
+  displacement_iso.closure = Closure::isothermal;
+  displacement_iso.sound_speed_iso = 0.7;
+  out.push_back(displacement_iso);
   return out;
 }
 
