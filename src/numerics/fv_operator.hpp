@@ -52,6 +52,16 @@ class SourceTerm {
   virtual void add(const M& model, const Grid& grid, real t, const Field<State>& W,
                    Field<State>& dUdt) const = 0;
   [[nodiscard]] virtual std::string describe() const = 0;
+  /// Energy per unit time and cross-section this term puts into the tube at (t, W)
+  /// [W/m^2]: the sum over its cells of tw::energy_rate times dx (0 for a term that does
+  /// no work). The stepper integrates it with the Runge-Kutta weights, so energy budgets
+  /// close to round-off.
+  [[nodiscard]] virtual real power(const M& /*model*/, const Grid& /*grid*/, real /*t*/,
+                                   const Field<State>& /*W*/) const {
+    return 0;
+  }
+  /// Offer this term's time-step limits (stiff relaxations), unscaled by the CFL number.
+  virtual void step_limits(const M& /*model*/, const Grid& /*grid*/, StepLimits& /*limits*/) const {}
 };
 
 /// Spatial discretisation choices.
@@ -69,6 +79,14 @@ struct RhsReport {
   Vec<N> bad_state{};            ///< its primitive state
   Vec<N> flux_left{}, flux_right{};  ///< numerical flux through face 0 and face n
   StepLimits limits;             ///< the model's extra limits (when requested)
+  /// Energy flux density along +x through face 0 and face n [W/m^2] (models with
+  /// energy_flux; 0 otherwise).
+  real energy_flux_left = 0, energy_flux_right = 0;
+  /// Heating by the model's dissipation, integrated along the tube [W/m^2] (models with
+  /// dissipation, when gradient terms are active).
+  Dissipation dissipation;
+  /// Power of each source term, in the order they were added [W/m^2].
+  std::vector<real> source_power;
 };
 
 template <Model M>
@@ -80,7 +98,8 @@ class FvOperator {
   FvOperator(const Grid& grid, SpatialScheme scheme,
              std::shared_ptr<const Boundary<M>> left, std::shared_ptr<const Boundary<M>> right)
       : grid_(grid), scheme_(scheme), left_(std::move(left)), right_(std::move(right)),
-        W_(grid), Wm_(grid), Wp_(grid), F_(static_cast<std::size_t>(grid.n_cells + 1)) {
+        W_(grid), Wm_(grid), Wp_(grid), F_(static_cast<std::size_t>(grid.n_cells + 1)),
+        D_(static_cast<std::size_t>(grid.n_cells + 1)) {
     TW_CHECK(left_ && right_, "both boundaries must be set");
     TW_CHECK(flux_supported<M>(scheme.flux), "flux not available for this model");
     if constexpr (HasBlockKernel)
@@ -195,7 +214,7 @@ class FvOperator {
       if (fused) {
         fused_face_pass(m, dx, smax);
       } else {
-        reconstruct_pass(m);
+        reconstruct_pass(m, -1, n + 1);
         switch (scheme_.flux) {
           case FluxKind::rusanov: face_pass<FluxKind::rusanov>(m, dx, smax); break;
           case FluxKind::hll: face_pass<FluxKind::hll>(m, dx, smax); break;
@@ -228,6 +247,12 @@ class FvOperator {
           simd::flux_difference(std::min(flat_chunk, len - j0), N, inv_dx, fl + j0, d + j0);
         }
       }
+      if constexpr (HasDissipation<M>) {
+        if (gradient_active(m)) {
+#pragma omp for schedule(static)
+          for (int f = 0; f <= n; ++f) D_[static_cast<std::size_t>(f)] = m.dissipation(W_[f - 1], W_[f], dx);
+        }
+      }
       if constexpr (HasStepLimits<M>) {
         if (want_limits) {
 #pragma omp single
@@ -238,8 +263,33 @@ class FvOperator {
         }
       }
     }
-    for (const auto& s : sources_) s->add(m, grid_, t, W_, dUdt);
+    rep.source_power.resize(sources_.size());
+    for (std::size_t j = 0; j < sources_.size(); ++j) {
+      sources_[j]->add(m, grid_, t, W_, dUdt);
+      rep.source_power[j] = sources_[j]->power(m, grid_, t, W_);
+    }
     for (const auto& l : thread_limits) rep.limits.merge(l);  // fixed order: exact (min)
+    if (want_limits)
+      for (const auto& s : sources_) s->step_limits(m, grid_, rep.limits);
+    if constexpr (HasEnergyFlux<M>) {
+      if (fused) {
+        // The block kernel keeps no face values; the two end faces' are reconstructed here
+        // by the generic code (which the kernel reproduces bitwise).
+        reconstruct_pass(m, -1, 1);
+        reconstruct_pass(m, n - 1, n + 1);
+      }
+      rep.energy_flux_left = m.energy_flux(F_.front(), face_state(Wp_[-1], Wm_[0]));
+      rep.energy_flux_right = m.energy_flux(F_.back(), face_state(Wp_[n - 1], Wm_[n]));
+    }
+    if constexpr (HasDissipation<M>) {
+      if (gradient_active(m)) {
+        // Serial sum in a fixed order (reproducible); the end faces count half.
+        Dissipation d = 0.5 * D_.front();
+        for (int f = 1; f < n; ++f) d += D_[static_cast<std::size_t>(f)];
+        d += 0.5 * D_.back();
+        rep.dissipation = dx * d;
+      }
+    }
     rep.max_speed = smax;
     rep.flux_left = F_.front();
     rep.flux_right = F_.back();
@@ -299,30 +349,35 @@ class FvOperator {
   }
 
  private:
+  static State face_state(const State& a, const State& b) {
+    State w;
+    for (int k = 0; k < N; ++k) w[k] = 0.5 * (a[k] + b[k]);
+    return w;
+  }
   static int omp_threads() { return omp_get_num_threads(); }
   static int omp_thread() { return omp_get_thread_num(); }
 
-  /// Face values Wm_[i] (at i-1/2) and Wp_[i] (at i+1/2) for cells -1 .. n.
-  void reconstruct_pass(const M& m) {
+  /// Face values Wm_[i] (at i-1/2) and Wp_[i] (at i+1/2) for cells lo .. hi-1 (all
+  /// that the faces need: -1 .. n).
+  void reconstruct_pass(const M& m, int lo, int hi) {
     switch (scheme_.reconstruction) {
-      case Reconstruction::first_order: recon_loop<0, Limiter::none>(m); break;
-      case Reconstruction::weno5: recon_loop<2, Limiter::none>(m); break;
+      case Reconstruction::first_order: recon_loop<0, Limiter::none>(m, lo, hi); break;
+      case Reconstruction::weno5: recon_loop<2, Limiter::none>(m, lo, hi); break;
       case Reconstruction::plm:
         switch (scheme_.limiter) {
-          case Limiter::minmod: recon_loop<1, Limiter::minmod>(m); break;
-          case Limiter::mc: recon_loop<1, Limiter::mc>(m); break;
-          case Limiter::van_leer: recon_loop<1, Limiter::van_leer>(m); break;
-          case Limiter::none: recon_loop<1, Limiter::none>(m); break;
+          case Limiter::minmod: recon_loop<1, Limiter::minmod>(m, lo, hi); break;
+          case Limiter::mc: recon_loop<1, Limiter::mc>(m, lo, hi); break;
+          case Limiter::van_leer: recon_loop<1, Limiter::van_leer>(m, lo, hi); break;
+          case Limiter::none: recon_loop<1, Limiter::none>(m, lo, hi); break;
         }
         break;
     }
   }
 
   template <int Order, Limiter L>
-  void recon_loop(const M& m) {
-    const int n = grid_.n_cells;
+  void recon_loop(const M& m, int lo_cell, int hi_cell) {
 #pragma omp for schedule(static)
-    for (int i = -1; i <= n; ++i) {
+    for (int i = lo_cell; i < hi_cell; ++i) {
       const State& c = W_[i];
       State lo, hi;
       if constexpr (Order == 0) {
@@ -466,6 +521,7 @@ class FvOperator {
   Field<State> W_, Wm_, Wp_;
   std::vector<State> F_;
   std::vector<real> columns_;  ///< primitive field as one array per variable (block kernel)
+  std::vector<Dissipation> D_;  ///< heating at each face (when active)
 };
 
 }  // namespace tw

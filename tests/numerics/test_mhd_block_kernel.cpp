@@ -292,6 +292,9 @@ TEST_CASE("MHD block kernel face pass equals the generic passes bitwise", "[unit
               CHECK(same_bits(rep.max_speed, ref.max_speed));
               CHECK(same_bits(rep.flux_left, ref.flux_left));
               CHECK(same_bits(rep.flux_right, ref.flux_right));
+              // The energy flux through the ends uses the reconstructed end-face states.
+              CHECK(same_bits(rep.energy_flux_left, ref.energy_flux_left));
+              CHECK(same_bits(rep.energy_flux_right, ref.energy_flux_right));
               CHECK(rep.bad_cell == ref.bad_cell);
               ++compared;
             }
