@@ -379,6 +379,7 @@ TEST_CASE("MHD steps are bitwise identical for both paths, every instruction set
     Field<S> U = initial();
     const int saved = omp_get_max_threads();
     omp_set_num_threads(threads);
+    REQUIRE(omp_get_max_threads() == threads);  // whatever OMP_NUM_THREADS the test runs with
     double t = 0;
     for (int s = 0; s < 10; ++s) t += stepper.step(m, U, t, 1e30, "none").dt;
     omp_set_num_threads(saved);
