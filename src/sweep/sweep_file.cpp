@@ -314,8 +314,11 @@ void Sweep::fail_case(const Case& c, const io::ConfigError& e) const {
   const std::string what = "case " + c.id + " (" + c.describe(parameters) + ")";
   // An error of one parameter's override is reported at that value in the sweep file.
   const std::string& origin = e.pos().origin;
-  for (std::size_t i = 0; i < n_fixed && i < overrides.size(); ++i)
-    if (origin == "--set " + overrides[i]) file.fail("set[" + std::to_string(i) + "]", "'" + overrides[i] + "': " + reason_of(e));
+  for (std::size_t i = 0; i < overrides.size(); ++i) {
+    if (origin != "--set " + overrides[i]) continue;
+    if (i < n_fixed) file.fail("set[" + std::to_string(i) + "]", "'" + overrides[i] + "': " + reason_of(e));
+    throw e;  // an override from the command line: the message names it
+  }
   for (std::size_t j = 0; j < parameters.size(); ++j) {
     const Parameter& p = parameters[j];
     const std::string set = p.key + "=" + p.yaml_value(c.value_index[j]);

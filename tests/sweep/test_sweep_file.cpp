@@ -164,6 +164,12 @@ TEST_CASE("sweep command: a broken sweep file exits 2 with the message and write
   const auto missing = tw::test::run_tubewave("sweep no_such_sweep.yaml", dir.path());
   CHECK(missing.exit_code == 2);
   CHECK_THAT(missing.output, Contains("no_such_sweep.yaml") && Contains("does not exist"));
+  // An override for every case from the command line is named as such.
+  write_sweep(dir, "base: base.yaml\nparameters:\n  - key: grid.cells\n    values: [64]\n");
+  const auto set = tw::test::run_tubewave("sweep sweep.yaml --set time.end=-1", dir.path());
+  CHECK(set.exit_code == 2);
+  CHECK_THAT(set.output, Contains("(--set time.end=-1): key 'time.end': must be > 0"));
+  CHECK_FALSE(std::filesystem::exists(dir / "sweep"));
   const auto modes = tw::test::run_tubewave("sweep sweep.yaml --merge --list", dir.path());
   CHECK(modes.exit_code == 2);
   CHECK_THAT(modes.output, Contains("exclude each other"));

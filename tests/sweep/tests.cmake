@@ -1,3 +1,23 @@
+# The sweep tests (test_*.cpp here) are their own executable, tubewave_sweep_tests, so the
+# build without MPI (preset nompi) compiles only them besides tubewave. In builds with MPI
+# they include the `mpiexec -np 2` comparison (TUBEWAVE_MPIEXEC_FLAGS: the launcher's
+# options; Open MPI's let it run as root and on more ranks than cores).
+file(GLOB TUBEWAVE_SWEEP_TEST_SOURCES CONFIGURE_DEPENDS ${CMAKE_CURRENT_LIST_DIR}/test_*.cpp)
+add_executable(tubewave_sweep_tests ${TUBEWAVE_SWEEP_TEST_SOURCES} ${CMAKE_CURRENT_LIST_DIR}/../support/test_support.cpp)
+target_link_libraries(tubewave_sweep_tests PRIVATE tubewave::core tubewave_options Catch2::Catch2WithMain)
+target_include_directories(tubewave_sweep_tests PRIVATE ${CMAKE_CURRENT_LIST_DIR}/..)
+target_compile_definitions(tubewave_sweep_tests PRIVATE
+  TUBEWAVE_SOURCE_DIR="${PROJECT_SOURCE_DIR}"
+  TUBEWAVE_EXE="$<TARGET_FILE:tubewave>")
+if(TUBEWAVE_HAVE_MPI)
+  set(TUBEWAVE_MPIEXEC_FLAGS "--allow-run-as-root --oversubscribe" CACHE STRING "mpiexec options for the MPI sweep test")
+  target_compile_definitions(tubewave_sweep_tests PRIVATE
+    TUBEWAVE_TEST_MPIEXEC="${MPIEXEC_EXECUTABLE} ${TUBEWAVE_MPIEXEC_FLAGS}")
+endif()
+add_dependencies(tubewave_sweep_tests tubewave)
+catch_discover_tests(tubewave_sweep_tests TEST_SPEC "[unit]"
+  PROPERTIES LABELS unit ENVIRONMENT "OMP_NUM_THREADS=2")
+
 # The example sweeps in configs/sweeps/: each is validated (`--list` checks every case's run
 # file) and run with shortened cases into the build tree.
 file(GLOB TUBEWAVE_EXAMPLE_SWEEPS CONFIGURE_DEPENDS ${PROJECT_SOURCE_DIR}/configs/sweeps/*.yaml)
