@@ -91,6 +91,7 @@ int cmd_run(std::span<const std::string> args) {
       << human_seconds(s.wall_seconds) << " (" << s.cell_updates_per_second << " cell-updates/s)\n"
       << "tubewave: wrote " << s.output_file << " (" << s.snapshots << " snapshots, "
       << s.probe_samples << " probe samples)\n";
+  for (const auto& n : s.notes) msg << "tubewave: " << n << "\n";
   if (s.outcome != "completed") msg << "tubewave: " << s.message << "\n";
   std::cout << msg.str();
   if (s.outcome == "completed") return exit_code::ok;

@@ -418,6 +418,39 @@ void OutputFile::write_parameters(const std::vector<ParameterValue>& params) {
   }
 }
 
+void OutputFile::write_scalars(const std::string& path, const std::vector<ParameterValue>& values,
+                               const std::vector<std::pair<std::string, std::string>>& attributes) {
+  impl_->require_open("write_scalars");
+  const std::string& file = impl_->temp_path;
+  Handle g;
+  std::string object;
+  std::size_t start = 0;
+  while (start <= path.size()) {
+    const auto slash = path.find('/', start);
+    const std::string part = path.substr(start, slash == std::string::npos ? std::string::npos : slash - start);
+    TW_CHECK(valid_link_name(part), "invalid group path '" + path + "'");
+    const hid_t parent = g.valid() ? g.get() : impl_->file.get();
+    object += "/" + part;
+    g = link_exists(parent, part) ? own(H5Gopen2(parent, part.c_str(), H5P_DEFAULT), Kind::group, file, "open group", object)
+                                  : create_group(parent, part, file, object);
+    if (slash == std::string::npos) break;
+    start = slash + 1;
+  }
+  Handle space = scalar_space(file);
+  for (const ParameterValue& p : values) {
+    TW_CHECK(valid_link_name(p.name), "invalid dataset name '" + p.name + "'");
+    TW_CHECK(!link_exists(g.get(), p.name), "'" + p.name + "' written twice in " + object);
+    const std::string obj = object + "/" + p.name;
+    Handle ds = own(H5Dcreate2(g.get(), p.name.c_str(), H5T_IEEE_F64LE, space.get(), H5P_DEFAULT,
+                               H5P_DEFAULT, H5P_DEFAULT),
+                    Kind::dataset, file, "create dataset", obj);
+    check(H5Dwrite(ds.get(), H5T_NATIVE_DOUBLE, H5S_ALL, H5S_ALL, H5P_DEFAULT, &p.value), file,
+          "write dataset", obj);
+    write_units(ds.get(), p.units, p.description, file, obj);
+  }
+  for (const auto& [name, value] : attributes) write_string_attr(g.get(), name.c_str(), value, file, object);
+}
+
 void OutputFile::write_grid(std::span<const real> x_centres, std::span<const real> x_faces) {
   impl_->require_open("write_grid");
   TW_CHECK(x_faces.size() == x_centres.size() + 1, "grid has " + std::to_string(x_centres.size()) +

@@ -32,6 +32,7 @@
 #include <memory>
 #include <span>
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "core/types.hpp"
@@ -106,6 +107,11 @@ class OutputFile {
   void write_provenance(const Provenance& p);
   void write_parameters(const std::vector<ParameterValue>& params);
   void write_grid(std::span<const real> x_centres, std::span<const real> x_faces);
+  /// Scalar float64 datasets (with units and description) in the group at `path`
+  /// ("antennas/antenna1"; the group and its parents are created as needed), and string
+  /// attributes on that group. Used for per-antenna and per-region summaries.
+  void write_scalars(const std::string& path, const std::vector<ParameterValue>& values,
+                     const std::vector<std::pair<std::string, std::string>>& attributes = {});
 
   /// Declare a series group. `width` values per column per row; `rows_per_chunk` sets the
   /// HDF5 chunking (snapshots: 1 row per chunk and compressed; probes/history: many rows).

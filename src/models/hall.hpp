@@ -58,6 +58,7 @@
 ///
 /// Primitive W = (rho, u, v, w, B_y, B_z, p, p_e) (p: total thermal pressure); conservative
 /// U = (rho, m_x, m_y, m_z, B'_y, B'_z, E, S) (the first seven as in Mhd).
+#include <algorithm>
 #include <array>
 #include <cmath>
 #include <vector>
@@ -247,6 +248,50 @@ struct HallMhd {
     W[VZ] = vz;
   }
 
+  // Members used by drives, open ends and budgets (models/model.hpp), mostly the ideal part's.
+  [[nodiscard]] std::array<real, 2> transverse_field(const State& W) const { return {W[BY], W[BZ]}; }
+  void set_transverse_field(State& W, real by, real bz) const {
+    W[BY] = by;
+    W[BZ] = bz;
+  }
+  [[nodiscard]] AlfvenFields alfven_fields(const State& W) const { return ideal.alfven_fields(head(W)); }
+  /// The energy component of the face flux (which holds the Hall Poynting flux when the Hall
+  /// term is in the stages); isothermal closure: as in Mhd. The split step's end fluxes are
+  /// counted by the Stepper.
+  [[nodiscard]] real energy_flux(const State& F, const State& W) const { return ideal.energy_flux(head(F), head(W)); }
+  /// Heating by the stage terms (resistivity and viscosity when stepping explicitly). With a
+  /// split Hall step its Ohmic heat stays in the thermal energy but is not reported here.
+  [[nodiscard]] Dissipation dissipation(const State& Wl, const State& Wr, real dx) const {
+    return ideal.dissipation(head(Wl), head(Wr), dx);
+  }
+  [[nodiscard]] real energy_rate(const State& U, const State& S) const { return ideal.energy_rate(head(U), head(S)); }
+  [[nodiscard]] State conserved_scale(const State& U) const {
+    const Mhd::State s = ideal.conserved_scale(head(U));
+    State r;
+    for (int k = 0; k < Mhd::n_vars; ++k) r[k] = s[k];
+    r[SE] = std::max(std::abs(U[SE]), U[RHO]);
+    return r;
+  }
+  /// An antenna current J_ext = (0, jy, jz) [A/m^2]: the force -J_ext x B and its work, as
+  /// in MHD (see external_current_field_flux for the Hall field).
+  [[nodiscard]] State external_current_source(const State& W, real jy, real jz) const {
+    const Mhd::State s = ideal.external_current_source(head(W), jy, jz);
+    State r{};
+    for (int k = 0; k < Mhd::n_vars; ++k) r[k] = s[k];
+    return r;
+  }
+  /// Ohm's law holds the plasma current J_p = curl(B)/mu0 - J_ext, but the Hall term of the
+  /// model is built from curl(B)/mu0: the antenna adds back E_corr = -J_ext x B/(e n_e),
+  /// i.e. (E_y, E_z) = mu0 h (-jz, jy). As fluxes of dB/dt + dG/dx = 0:
+  /// G_By = -E_z = -mu0 h jy, G_Bz = E_y = -mu0 h jz, with h = B_x/(mu0 e n_e) at the face.
+  /// This field does no work on the plasma (it is across J_p); the antenna counts its
+  /// magnetic energy. (Electron inertia of the antenna current is not modelled.)
+  [[nodiscard]] std::array<real, 2> external_current_field_flux(const State& Wl, const State& Wr, real jy,
+                                                                 real jz) const {
+    const real h = 0.5 * (hall_coefficient(Wl[RHO]) + hall_coefficient(Wr[RHO]));
+    return {-ideal.mu0 * h * jy, -ideal.mu0 * h * jz};
+  }
+
   // Whole-grid members (models/model.hpp; implemented in hall.cpp).
   [[nodiscard]] bool grid_coupled() const { return inertia_rho > 0; }
   void recover_primitives(const Grid& g, const Field<State>& U, Field<State>& W, const GhostFill<State>& fill,
@@ -267,5 +312,7 @@ static_assert(HasStepLimits<HallMhd>);
 static_assert(HasEnergyDensity<HallMhd>);
 static_assert(HasGridRecovery<HallMhd>);
 static_assert(HasSplitStep<HallMhd>);
+static_assert(HasEnergyFlux<HallMhd> && HasDissipation<HallMhd> && HasExternalCurrent<HallMhd> && HasEnergyRate<HallMhd>);
+static_assert(HasTransverseVelocity<HallMhd> && HasTransverseField<HallMhd> && HasAlfvenFields<HallMhd>);
 
 }  // namespace tw

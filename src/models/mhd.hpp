@@ -43,6 +43,7 @@
 /// U = (rho, m_x, m_y, m_z, By, Bz, E) with m = rho u (plus eps E x B with the
 /// displacement current).
 #include <cmath>
+#include <limits>
 #include <vector>
 
 #include "models/model.hpp"
@@ -329,11 +330,103 @@ struct Mhd {
     W[VY] = vy;
     W[VZ] = vz;
   }
+  /// Transverse magnetic field of a primitive state, and setting it (used by drives).
+  [[nodiscard]] std::array<real, 2> transverse_field(const State& W) const { return {W[BY], W[BZ]}; }
+  void set_transverse_field(State& W, real by, real bz) const {
+    W[BY] = by;
+    W[BZ] = bz;
+  }
+
+  /// With the displacement current the transverse motion of a wave along x carries the
+  /// extra inertia eps B_x^2 (see above), so the Elsasser split uses rho + eps B_x^2.
+  [[nodiscard]] AlfvenFields alfven_fields(const State& W) const {
+    return {W[VY], W[VZ], W[BY], W[BZ], W[RHO] + eps_disp * bx * bx, bx, mu0};
+  }
+
+  /// Energy flux through a face: the energy component of the numerical flux (adiabatic:
+  /// exact budgets); for the isothermal closure, whose energy slot is not evolved, the
+  /// Poynting flux (E x B)_x / mu0 = (F_By By + F_Bz Bz) / mu0 (F_B = -E x e_x, the
+  /// induction fluxes) plus the flux of kinetic energy and the pressure work at the face
+  /// state W.
+  [[nodiscard]] real energy_flux(const State& F, const State& W) const {
+    if (closure == Closure::adiabatic) return F[EN];
+    const real u = W[VX];
+    const real kin = 0.5 * W[RHO] * (W[VX] * W[VX] + W[VY] * W[VY] + W[VZ] * W[VZ]);
+    return (F[BY] * W[BY] + F[BZ] * W[BZ]) / mu0 + u * (kin + W[P]);
+  }
+
+  /// Ohmic and viscous heating between two cells, from the same face gradients as
+  /// gradient_flux (so the adiabatic energy budget moves exactly this much into heat).
+  [[nodiscard]] Dissipation dissipation(const State& Wl, const State& Wr, real dx) const {
+    Dissipation d;
+    d.retained = closure == Closure::adiabatic;
+    if (resistivity > 0) {
+      const real dby = (Wr[BY] - Wl[BY]) / dx, dbz = (Wr[BZ] - Wl[BZ]) / dx;
+      d.resistive = resistivity * (dby * dby + dbz * dbz) / (mu0 * mu0);
+    }
+    if (viscosity > 0) {
+      const real mu = 0.5 * (Wl[RHO] + Wr[RHO]) * viscosity;
+      const real du = (Wr[VX] - Wl[VX]) / dx, dv = (Wr[VY] - Wl[VY]) / dx, dw = (Wr[VZ] - Wl[VZ]) / dx;
+      d.viscous = mu * ((4.0 / 3.0) * du * du + dv * dv + dw * dw);
+    }
+    return d;
+  }
+
+  /// An antenna current J_ext = (0, jy, jz) [A/m^2] carried by conductors in the cell.
+  /// Ampere's law gives the plasma current J = curl(B)/mu0 - J_ext, so the plasma feels,
+  /// besides the Maxwell stress already in the flux, the force -J_ext x B, and the total
+  /// energy gains -E.J_ext = u.(-J_ext x B) with the ideal E = -u x B. (The resistive
+  /// field of the antenna current itself is not modelled: antennas sit in ideal regions.)
+  [[nodiscard]] State external_current_source(const State& W, real jy, real jz) const {
+    State S{};
+    const real fx = jz * W[BY] - jy * W[BZ], fy = -jz * bx, fz = jy * bx;
+    S[MX] = fx;
+    S[MY] = fy;
+    S[MZ] = fz;
+    if (closure == Closure::adiabatic) S[EN] = W[VX] * fx + W[VY] * fy + W[VZ] * fz;
+    return S;
+  }
+
+  /// d(total energy density)/dt for a source S: its energy component (adiabatic), or the
+  /// change of kinetic plus magnetic energy (isothermal).
+  [[nodiscard]] real energy_rate(const State& U, const State& S) const {
+    if (closure == Closure::adiabatic) return S[EN];
+    if (eps_disp > 0) {
+      // Kinetic + magnetic + electric energy of the state, differentiated along S (a
+      // central difference; the map from U is rational, the step small).
+      real h = std::numeric_limits<real>::infinity();
+      for (int k = 0; k < n_vars; ++k)
+        if (S[k] != 0 && U[k] != 0) h = std::min(h, std::abs(U[k] / S[k]));
+      if (!std::isfinite(h)) return 0;
+      h *= 1e-4;
+      State up = U, um = U;
+      for (int k = 0; k < n_vars; ++k) {
+        up[k] += h * S[k];
+        um[k] -= h * S[k];
+      }
+      return (energy_density(prim_from_cons(up)).total() - energy_density(prim_from_cons(um)).total()) / (2 * h);
+    }
+    const real inv = 1 / U[RHO];
+    const real u = U[MX] * inv, v = U[MY] * inv, w = U[MZ] * inv;
+    return u * S[MX] + v * S[MY] + w * S[MZ] - 0.5 * (u * u + v * v + w * w) * S[RHO] +
+           (U[BY] * S[BY] + U[BZ] * S[BZ]) / mu0;
+  }
+
+  /// Typical sizes of the conservative variables (for numerical Jacobians).
+  [[nodiscard]] State conserved_scale(const State& U) const {
+    const State W = prim_from_cons(U);
+    const real cf = fast_speed(W);
+    const real rho = U[RHO];
+    const real b = std::sqrt(mu0 * rho) * cf;
+    return {rho, rho * cf, rho * cf, rho * cf, b, b, std::max(std::abs(U[EN]), rho * cf * cf)};
+  }
 };
 
 static_assert(Model<Mhd>);
 static_assert(HasGradientFlux<Mhd>);
 static_assert(HasStepLimits<Mhd>);
 static_assert(HasEnergyDensity<Mhd>);
+static_assert(HasEnergyFlux<Mhd> && HasDissipation<Mhd> && HasExternalCurrent<Mhd> && HasEnergyRate<Mhd>);
+static_assert(HasTransverseVelocity<Mhd> && HasTransverseField<Mhd> && HasAlfvenFields<Mhd>);
 
 }  // namespace tw

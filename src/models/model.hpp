@@ -34,6 +34,41 @@
 ///        extra time-step limits of one cell (diffusion, whistler, ...)
 ///   EnergyParts energy_density(const State& W) const;
 ///        kinetic, thermal, magnetic and electric energy densities (energy budgets)
+///   real energy_flux(const State& F, const State& W) const;
+///        energy flux density along x [W/m^2] through a face whose numerical flux is F and
+///        whose face state is W (the average of the two reconstructed values). A model
+///        whose total energy is one conserved component returns that component of F, so
+///        budgets close to round-off; others evaluate the physical flux (Poynting plus
+///        material) from W. Used for the energy through the ends.
+///   Dissipation dissipation(const State& Wl, const State& Wr, real dx) const;
+///        heating rates per unit volume [W/m^3] between two neighbouring cells (resistive
+///        eta J^2, viscous, collisional), evaluated at every face when gradient terms are
+///        active; `retained` says whether that heat stays in the model's thermal energy
+///   State external_current_source(const State& W, real jy, real jz) const;
+///        the source dU/dt of an external (antenna) current density J_ext = (0, jy, jz)
+///        [A/m^2] flowing in conductors inside the cell: in MHD the force -J_ext x B on the
+///        plasma and its work; in a model that evolves E, the -J_ext/eps0 term of Ampere's
+///        law. The power the antenna delivers, -E.J_ext, follows from energy_density.
+///   std::array<real,2> external_current_field_flux(const State& Wl, const State& Wr,
+///                                                  real jy, real jz) const;
+///        for models whose Ohm's law uses the plasma current but whose field law is built
+///        from curl(B) (Hall MHD): the transverse-field fluxes (G_By, G_Bz) [T m/s] at a face
+///        where the antenna current is (jy, jz), restoring the field of the plasma current
+///        (dB/dt + dG/dx = 0). Antennas apply it with its magnetic energy.
+///   std::array<real,2> transverse_velocity(const State& W) const;
+///   void set_transverse_velocity(State& W, real vy, real vz) const;
+///        the (centre-of-mass) transverse flow of a primitive state; lets drives move it
+///   std::array<real,2> transverse_field(const State& W) const;
+///   void set_transverse_field(State& W, real by, real bz) const;
+///        the transverse magnetic field [T] of a primitive state; lets drives set it
+///   AlfvenFields alfven_fields(const State& W) const;
+///        what the forward/backward (Elsasser) decomposition along x needs
+///   real energy_rate(const State& U, const State& S) const;
+///        d(total energy density)/dt [W/m^3] when U changes at the rate S (exact form of
+///        the generic tw::energy_rate)
+///   State conserved_scale(const State& U) const;
+///        typical size of each conservative variable at U (step sizes of numerical
+///        Jacobians, e.g. for characteristic open ends); the fallback uses |U_k|
 ///   static std::vector<VariableInfo> diagnostic_info();
 ///   void diagnostics(const Grid& grid, const Field<State>& U, real* out) const;
 ///        whole-tube numbers the runner writes to /history with every record, one column
@@ -62,6 +97,7 @@
 ///        split_step_active() is false. Detected by HasSplitStep (below); run by the Stepper.
 #include <algorithm>
 #include <array>
+#include <cmath>
 #include <concepts>
 #include <functional>
 #include <limits>
@@ -95,6 +131,40 @@ struct EnergyParts {
   real magnetic = 0;  ///< |B|^2 / 2 mu0, including the constant B_x
   real electric = 0;  ///< eps0 |E|^2 / 2 (zero where E is not a variable)
   [[nodiscard]] real total() const { return kinetic + thermal + magnetic + electric; }
+};
+
+/// Heating per unit volume by the model's dissipation [W/m^3] (energy budgets).
+struct Dissipation {
+  real resistive = 0;    ///< eta |J|^2
+  real viscous = 0;      ///< viscous heating
+  real collisional = 0;  ///< friction between species
+  /// True when the heat stays in the model's thermal energy (an adiabatic closure); false
+  /// when it leaves the modelled energy (an isothermal closure), so a budget must count it.
+  bool retained = true;
+  [[nodiscard]] real total() const { return resistive + viscous + collisional; }
+  friend Dissipation operator*(real s, Dissipation d) {
+    d.resistive *= s;
+    d.viscous *= s;
+    d.collisional *= s;
+    return d;
+  }
+  Dissipation& operator+=(const Dissipation& o) {
+    resistive += o.resistive;
+    viscous += o.viscous;
+    collisional += o.collisional;
+    retained = retained && o.retained;
+    return *this;
+  }
+};
+
+/// What the Elsasser (forward/backward Alfven wave) decomposition along x needs from a
+/// primitive state, in SI (or the run's code units).
+struct AlfvenFields {
+  real vy = 0, vz = 0;  ///< transverse (centre-of-mass) velocity [m/s]
+  real by = 0, bz = 0;  ///< transverse magnetic field [T]
+  real rho = 0;         ///< mass density [kg/m^3]
+  real bx = 0;          ///< field along the tube [T]
+  real mu0 = 0;         ///< permeability of the unit system
 };
 
 /// A named upper bound on the time step [s].
@@ -200,6 +270,83 @@ bool split_step_active(const M& m) {
   if constexpr (HasSplitStep<M>) return m.split_step_active();
   (void)m;
   return false;
+}
+
+template <class M>
+concept HasEnergyFlux = requires(const M m, const typename M::State& s) {
+  { m.energy_flux(s, s) } -> std::same_as<real>;
+};
+
+template <class M>
+concept HasDissipation = requires(const M m, const typename M::State& s, real dx) {
+  { m.dissipation(s, s, dx) } -> std::same_as<Dissipation>;
+};
+
+template <class M>
+concept HasExternalCurrent = requires(const M m, const typename M::State& s, real j) {
+  { m.external_current_source(s, j, j) } -> std::same_as<typename M::State>;
+};
+
+template <class M>
+concept HasExternalCurrentField = requires(const M m, const typename M::State& s, real j) {
+  { m.external_current_field_flux(s, s, j, j) } -> std::same_as<std::array<real, 2>>;
+};
+
+template <class M>
+concept HasTransverseVelocity = requires(const M m, typename M::State& W, real v) {
+  { m.transverse_velocity(W) } -> std::same_as<std::array<real, 2>>;
+  { m.set_transverse_velocity(W, v, v) };
+};
+
+template <class M>
+concept HasTransverseField = requires(const M m, typename M::State& W, real b) {
+  { m.transverse_field(W) } -> std::same_as<std::array<real, 2>>;
+  { m.set_transverse_field(W, b, b) };
+};
+
+template <class M>
+concept HasAlfvenFields = requires(const M m, const typename M::State& s) {
+  { m.alfven_fields(s) } -> std::same_as<AlfvenFields>;
+};
+
+template <class M>
+concept HasConservedScale = requires(const M m, const typename M::State& s) {
+  { m.conserved_scale(s) } -> std::same_as<typename M::State>;
+};
+
+template <class M>
+concept HasEnergyRate = requires(const M m, const typename M::State& s) {
+  { m.energy_rate(s, s) } -> std::same_as<real>;
+};
+
+/// Rate of change of the model's total energy density [W/m^3] when the conservative state
+/// U changes at the rate S (a source term): the model's own energy_rate(U, S) where it
+/// has one (exact), else the derivative of energy_density along S by a central
+/// difference (exact to round-off where the energy is linear or quadratic in U). Used for
+/// the power of antennas and absorbing layers.
+template <class M>
+  requires HasEnergyDensity<M>
+real energy_rate(const M& m, const typename M::State& U, const typename M::State& S) {
+  if constexpr (HasEnergyRate<M>) {
+    return m.energy_rate(U, S);
+  } else {
+    real h = std::numeric_limits<real>::infinity();
+    real smax = 0;
+    for (std::size_t k = 0; k < U.size(); ++k) {
+      smax = std::max(smax, std::abs(S[k]));
+      if (S[k] != 0 && U[k] != 0) h = std::min(h, std::abs(U[k] / S[k]));
+    }
+    if (smax == 0) return 0;
+    h = std::isfinite(h) ? 1e-3 * h : 1e-3 / smax;
+    typename M::State up = U, um = U;
+    for (std::size_t k = 0; k < U.size(); ++k) {
+      up[k] += h * S[k];
+      um[k] -= h * S[k];
+    }
+    const real ep = m.energy_density(m.prim_from_cons(up)).total();
+    const real em = m.energy_density(m.prim_from_cons(um)).total();
+    return (ep - em) / (2 * h);
+  }
 }
 
 template <class M>

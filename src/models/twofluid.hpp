@@ -249,6 +249,78 @@ struct TwoFluid {
     return e;
   }
 
+  // --- drives, open ends and budgets (models/model.hpp) ----------------------------------
+  /// Centre-of-mass transverse velocity [m/s].
+  [[nodiscard]] std::array<real, 2> transverse_velocity(const State& W) const {
+    const real ri = W[ION + Fluid::RHO], re = W[ELECTRON + Fluid::RHO];
+    const real inv = 1 / (ri + re);
+    return {(ri * W[ION + Fluid::VY] + re * W[ELECTRON + Fluid::VY]) * inv,
+            (ri * W[ION + Fluid::VZ] + re * W[ELECTRON + Fluid::VZ]) * inv};
+  }
+  /// Move the plasma transversely as a whole: both species' velocities shift by the same
+  /// d = v - v_cm (the current is kept) and the transverse E by -(d x B), so E + u x B of
+  /// each species is unchanged (a transverse boost of the frozen-in plasma; what a moving
+  /// conducting plate imposes, E = -v_plate x B).
+  void set_transverse_velocity(State& W, real vy, real vz) const {
+    const auto v = transverse_velocity(W);
+    const real dy = vy - v[0], dz = vz - v[1];
+    for (int off : {ION, ELECTRON}) {
+      W[off + Fluid::VY] += dy;
+      W[off + Fluid::VZ] += dz;
+    }
+    W[EY] -= dz * bx;
+    W[EZ] += dy * bx;
+  }
+  [[nodiscard]] std::array<real, 2> transverse_field(const State& W) const { return {W[BY], W[BZ]}; }
+  void set_transverse_field(State& W, real by, real bz) const {
+    W[BY] = by;
+    W[BZ] = bz;
+  }
+  /// Centre-of-mass velocity and B; the inertia of transverse motion along x includes the
+  /// displacement current's eps0 B_x^2 (waves at v_A / sqrt(1 + v_A^2/c^2)).
+  [[nodiscard]] AlfvenFields alfven_fields(const State& W) const {
+    const auto v = transverse_velocity(W);
+    return {v[0], v[1], W[BY], W[BZ], W[ION + Fluid::RHO] + W[ELECTRON + Fluid::RHO] + eps0 * bx * bx, bx, mu0};
+  }
+  /// The total energy is the sum of the two energy components (the electron one carries
+  /// the field energy and the Poynting flux): exact budgets.
+  [[nodiscard]] real energy_flux(const State& F, const State&) const {
+    return F[ION + Fluid::EN] + F[ELECTRON + Fluid::EN];
+  }
+  [[nodiscard]] real energy_rate(const State&, const State& S) const {
+    return S[ION + Fluid::EN] + S[ELECTRON + Fluid::EN];
+  }
+  /// An antenna current J_ext = (0, jy, jz) [A/m^2] enters Ampère's law,
+  /// dE/dt += -J_ext/eps0; the field energy it changes, eps0 E.dE/dt = -E.J_ext (the
+  /// antenna's power), is booked in the electron-and-field energy slot.
+  [[nodiscard]] State external_current_source(const State& W, real jy, real jz) const {
+    State S{};
+    S[EY] = -jy / eps0;
+    S[EZ] = -jz / eps0;
+    S[ELECTRON + Fluid::EN] = -(W[EY] * jy + W[EZ] * jz);
+    return S;
+  }
+  /// Typical sizes of the conservative variables (numerical Jacobians): each fluid's
+  /// density, momentum and energy with its sound speed, and the fields from |B|.
+  [[nodiscard]] State conserved_scale(const State& U) const {
+    State s{};
+    const State W = prim_from_cons(U);
+    real b = std::sqrt(bx * bx + U[BY] * U[BY] + U[BZ] * U[BZ]);
+    for (int off : {ION, ELECTRON}) {
+      const Fluid& f = off == ION ? ion : electron;
+      const Fluid::State w = block(W, off);
+      const real rho = w[Fluid::RHO];
+      const real a = std::max(f.sound_speed(w), std::abs(w[Fluid::VX]));
+      s[off + Fluid::RHO] = rho;
+      s[off + Fluid::MX] = s[off + Fluid::MY] = s[off + Fluid::MZ] = rho * a;
+      s[off + Fluid::EN] = std::max(std::abs(U[off + Fluid::EN]), rho * a * a);
+      b = std::max(b, std::sqrt(mu0 * w[Fluid::P]));
+    }
+    s[EX] = s[EY] = s[EZ] = c * b;
+    s[BY] = s[BZ] = b;
+    return s;
+  }
+
   /// Whole-tube diagnostics written to /history (see diagnostic_info()).
   static std::vector<VariableInfo> diagnostic_info() {
     return {{"charge_total", "C m^-2", "net charge per unit area: integral of q_i n_i + q_e n_e"},
@@ -269,5 +341,7 @@ struct TwoFluid {
 static_assert(Model<TwoFluid>);
 static_assert(HasEnergyDensity<TwoFluid>);
 static_assert(HasDiagnostics<TwoFluid>);
+static_assert(HasEnergyFlux<TwoFluid> && HasExternalCurrent<TwoFluid> && HasEnergyRate<TwoFluid>);
+static_assert(HasTransverseVelocity<TwoFluid> && HasTransverseField<TwoFluid> && HasAlfvenFields<TwoFluid>);
 
 }  // namespace tw

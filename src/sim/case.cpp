@@ -7,6 +7,8 @@
 #include <sstream>
 
 #include "core/species.hpp"
+#include "sim/drives.hpp"
+#include "sim/profiles.hpp"
 
 namespace tw {
 
@@ -19,42 +21,18 @@ int index_of(const std::vector<std::string>& names, const std::string& v) {
 }
 
 void declare_end(io::Section& s) {
-  s.choice("kind", {"periodic", "zero-gradient", "conducting", "driven"},
-           "what the end does: a ring, a free outflow, a line-tied conducting plate, or a "
-           "plate moved transversely (driven)")
+  s.choice("kind", {"periodic", "zero-gradient", "conducting", "driven", "open"},
+           "what the end does: a ring, a free outflow, a line-tied conducting plate, a drive "
+           "(moving plate or prescribed field), or open (non-reflecting, with an optional absorbing layer)")
       .require();
-  s.real("velocity_amplitude", "m/s", "driven end: amplitude of the transverse plate velocity")
-      .non_negative()
-      .def(0.0);
-  s.real("frequency", "Hz", "driven end: drive frequency").non_negative().def(0.0);
-  s.choice("polarization", {"y", "z", "left", "right"},
-           "driven end: linear along y or z, or circular rotating left- or right-handed about +x")
-      .def("y");
-  s.real("ramp_periods", "", "driven end: length of the smooth (sin^2) turn-on, in drive periods")
-      .non_negative()
-      .def(2.0);
+  declare_end_drive_keys(s);
 }
 
 EndSpec read_end(const io::RunFile& rf, const std::string& key) {
   EndSpec e;
   e.key = key;
   e.kind = rf.get_string(key + ".kind");
-  e.velocity_amplitude = rf.get_real(key + ".velocity_amplitude");
-  e.frequency = rf.get_real(key + ".frequency");
-  e.polarization = rf.get_string(key + ".polarization");
-  e.ramp_periods = rf.get_real(key + ".ramp_periods");
-  if (e.kind == "driven") {
-    if (!rf.given(key + ".frequency"))  // at the end itself: an absent key has no line
-      rf.fail(key, "a driven end needs a drive frequency: give " + key + ".frequency > 0");
-    if (e.frequency <= 0) rf.fail(key + ".frequency", "a driven end needs a drive frequency > 0");
-    if (!rf.given(key + ".velocity_amplitude"))
-      rf.fail(key, "a driven end needs velocity_amplitude");
-  } else {
-    for (const char* k : {"velocity_amplitude", "frequency", "polarization", "ramp_periods"})
-      if (rf.given(key + "." + k))
-        rf.fail(key + "." + k, "only a driven end takes '" + std::string(k) + "' (this end is " +
-                                   e.kind + ")");
-  }
+  check_end_keys(rf, e);
   return e;
 }
 
@@ -84,9 +62,11 @@ void declare_case_keys(io::Schema& schema) {
   plasma.real("ion_mass_amu", "u", "ion atomic mass instead of a species name (the ion mass is this minus Z electron masses)")
       .positive();
   plasma.integer("ion_charge", "ion charge number Z").at_least(1).at_most(100).def(1);
-  plasma.real("density", "m^-3", "electron number density n_e (ion density is n_e/Z)").positive().require();
-  plasma.real("electron_temperature", "eV", "electron temperature T_e").non_negative().def(0.0);
-  plasma.real("ion_temperature", "eV", "ion temperature T_i").non_negative().def(0.0);
+  declare_profile_key(plasma, "density", "m^-3", "electron number density n_e (ion density is n_e/Z)")
+      .positive()
+      .require();
+  declare_profile_key(plasma, "electron_temperature", "eV", "electron temperature T_e").non_negative().def(0.0);
+  declare_profile_key(plasma, "ion_temperature", "eV", "ion temperature T_i").non_negative().def(0.0);
   plasma.real("field", "T", "background magnetic field strength |B0|").non_negative().require();
   plasma.real("field_angle_deg", "deg", "angle of B0 from the tube axis x, in the x-z plane")
       .at_least(-180)
@@ -149,8 +129,15 @@ CaseSetup read_case(const io::RunFile& rf, const std::string& output_override) {
         rf.fail(std::string("normalized.") + k, "only used with 'units: normalized'");
   }
 
+  // Grid (profiles are checked on its cells).
+  c.grid = Grid(static_cast<int>(rf.get_int("grid.cells")), rf.get_real("grid.x_min"),
+                rf.get_real("grid.length"));
+
   // Plasma.
   PlasmaSpec& p = c.plasma;
+  p.n_e = read_profile(rf, "plasma.density", c.grid, "n", ProfileSign::positive);
+  p.t_e_eV = read_profile(rf, "plasma.electron_temperature", c.grid, "T_e", ProfileSign::non_negative);
+  p.t_i_eV = read_profile(rf, "plasma.ion_temperature", c.grid, "T_i", ProfileSign::non_negative);
   p.charge = static_cast<int>(rf.get_int("plasma.ion_charge"));
   if (c.units.normalized) {
     if (rf.given("plasma.ion") || rf.given("plasma.ion_mass_amu"))
@@ -172,17 +159,12 @@ CaseSetup read_case(const io::RunFile& rf, const std::string& output_override) {
     p.ion_name = std::string(sp->symbol);
     p.ion_mass = sp->atomic_mass_u * constants::u - p.charge * constants::m_e;
   }
-  p.n_e = Profile::constant(rf.get_real("plasma.density"));
-  p.t_e_eV = Profile::constant(rf.get_real("plasma.electron_temperature"));
-  p.t_i_eV = Profile::constant(rf.get_real("plasma.ion_temperature"));
   p.field = rf.get_real("plasma.field");
   p.field_angle_deg = rf.get_real("plasma.field_angle_deg");
   const auto flow = rf.get_reals("plasma.flow");
   p.flow = {flow[0], flow[1], flow[2]};
 
-  // Grid and time.
-  c.grid = Grid(static_cast<int>(rf.get_int("grid.cells")), rf.get_real("grid.x_min"),
-                rf.get_real("grid.length"));
+  // Time.
   c.t_end = rf.get_real("time.end");
   c.max_steps = rf.get_int("time.max_steps");
 

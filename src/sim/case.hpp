@@ -15,15 +15,11 @@
 
 namespace tw {
 
-/// One end of the tube as given in the run file.
+/// One end of the tube as given in the run file. The keys of driven and open ends are
+/// read where the end is built (sim/drives.hpp, sim/drive_setup.hpp).
 struct EndSpec {
-  std::string kind;             ///< periodic | zero-gradient | conducting | driven
-  std::string key;              ///< run-file path of this end, for messages
-  // driven end: transverse velocity u(t) = A ramp(t) (cos(phase) e_1 ...) see boundary docs
-  real velocity_amplitude = 0;  ///< [m/s]
-  real frequency = 0;           ///< [Hz]
-  std::string polarization;     ///< y | z | left | right
-  real ramp_periods = 0;        ///< smooth turn-on time in drive periods
+  std::string kind;             ///< periodic | zero-gradient | conducting | driven | open
+  std::string key;              ///< run-file path of this end, for messages and its keys
 };
 
 /// Output cadence and probes.

@@ -291,6 +291,9 @@ bool ModelSetup<Mhd>::perturb(const Mhd& m, const io::RunFile& rf, const CaseSet
   if (m.closure == Closure::adiabatic) require_pressure(rf, c, [&](int i) { return W[i][Mhd::P]; });
   if (kind != "wave") return kind == "uniform" || kind == "riemann";
   const Grid& g = c.grid;
+  if (!c.plasma.n_e.uniform || !c.plasma.t_e_eV.uniform || !c.plasma.t_i_eV.uniform)
+    rf.fail("initial.kind", "the wave initial state needs a uniform background, but the plasma "
+                            "has a profile along x");
   const std::string mode = rf.get_string("initial.mode");
   const bool forward = rf.get_string("initial.direction") == "forward";
   const bool standing = rf.get_string("initial.direction") == "standing";

@@ -14,6 +14,7 @@ namespace tw {
 struct Profile {
   std::function<real(real)> f;
   std::string description;
+  bool uniform = true;  ///< the same value everywhere (some initial states need that)
   real operator()(real x) const { return f(x); }
   static Profile constant(real v);
 };

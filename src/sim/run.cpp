@@ -1,6 +1,7 @@
 #include "sim/run.hpp"
 
 #include "sim/case.hpp"
+#include "sim/drives.hpp"
 #include "sim/hall_setup.hpp"
 #include "sim/initial.hpp"
 #include "sim/mhd_setup.hpp"
@@ -31,6 +32,7 @@ io::Schema build_schema() {
       .def("mhd");
   model.choice("form", form_names(), "full nonlinear equations").def("nonlinear");
   declare_case_keys(s);
+  declare_drive_keys(s);
   std::vector<std::string> kinds = mhd_initial_kinds();
   for (const auto& k : twofluid_initial_kinds()) kinds.push_back(k);
   declare_initial_keys(s, kinds);

@@ -43,6 +43,7 @@ struct RunSummary {
   double wall_seconds = 0;
   double cell_updates_per_second = 0;
   long snapshots = 0, probe_samples = 0;
+  std::vector<std::string> notes;  ///< one-line results worth printing (antenna powers, reflections)
 };
 
 /// Run a validated case and write its output file. Bad input in the model-dependent parts

@@ -13,13 +13,14 @@
 
 #include "core/plasma_params.hpp"
 #include "drive/boundary.hpp"
-#include "drive/driven_end.hpp"
 #include "io/output.hpp"
 #include "io/xdmf.hpp"
 #include "sim/case.hpp"
+#include "sim/drive_setup.hpp"
 #include "sim/initial.hpp"
 #include "sim/model_setup.hpp"
 #include "sim/run.hpp"
+#include "sim/wave_output.hpp"
 #include "time/stepper.hpp"
 #include "tubewave/version.hpp"
 
@@ -45,34 +46,6 @@ class Cadence {
   real interval_;
   long next_ = 0;
 };
-
-template <Model M>
-std::shared_ptr<const Boundary<M>> make_boundary(const io::RunFile& rf, const EndSpec& e) {
-  if (e.kind == "periodic") return std::make_shared<PeriodicBoundary<M>>();
-  if (e.kind == "zero-gradient") return std::make_shared<ZeroGradientBoundary<M>>();
-  if (e.kind == "conducting") return std::make_shared<ConductingBoundary<M>>();
-  if (e.kind == "driven") {
-    if constexpr (HasTransverseVelocity<M>) {
-      PlateMotion pm;
-      pm.amplitude = e.velocity_amplitude;
-      pm.frequency = e.frequency;
-      pm.ramp_time = e.ramp_periods / e.frequency;
-      if (e.polarization == "y") {
-        pm.e_y = 1;
-        pm.e_z = 0;
-      } else if (e.polarization == "z") {
-        pm.e_y = 0;
-        pm.e_z = 1;
-      } else {
-        pm.circular = e.polarization == "right" ? 1 : -1;
-      }
-      return std::make_shared<DrivenPlateBoundary<M>>(pm);
-    } else {
-      rf.fail(e.key + ".kind", std::string("the ") + M::name() + " model cannot be driven by a moving end");
-    }
-  }
-  rf.fail(e.key + ".kind", "unknown end kind '" + e.kind + "'");
-}
 
 template <Model M>
 class CaseRunner {
@@ -101,9 +74,12 @@ class CaseRunner {
     }
     scheme_ = c_.scheme;
     scheme_.flux = ModelSetup<M>::flux(rf, model_);
-    auto left = make_boundary<M>(rf, c_.left);
-    auto right = make_boundary<M>(rf, c_.right);
-    stepper_.emplace(FvOperator<M>(g, scheme_, left, right), c_.time);
+    // Ends, antennas and absorbing layers (sim/drive_setup.hpp), and their diagnostics.
+    BuiltDrives<M> drives = build_drives<M>(rf, c_, model_, W);
+    FvOperator<M> op(g, scheme_, drives.left, drives.right);
+    for (auto& s : drives.sources) op.add_source(s);
+    stepper_.emplace(std::move(op), c_.time);
+    waves_.emplace(rf, c_, std::move(drives.drives), std::move(drives.layer_sources));
     // Conservative variables (over the whole grid, with the ends, for models that need it).
     stepper_->op().conservatives(model_, 0, W, U_);
     prim_ = Field<State>(g);
@@ -180,9 +156,12 @@ class CaseRunner {
     if (!c_.output.probes.empty())
       probes = out.create_series("probes", cols, static_cast<int>(c_.output.probes.size()), 256, false);
     io::Series history = out.create_series("history", hist, 1, 256, false);
+    waves_->create(out);
 
     Cadence snap_c(c_.output.snapshot_interval), probe_c(c_.output.probe_interval),
-        hist_c(c_.output.history_interval);
+        hist_c(c_.output.history_interval), region_c(c_.output.probe_interval);
+    const bool regions = waves_->has_regions();
+    waves_->after_step(0, *stepper_);
     RunSummary sum;
     sum.output_file = c_.output.file;
     real t = 0, t_snap_last = -1;
@@ -191,11 +170,13 @@ class CaseRunner {
       const bool s = snap_c.due(t) || force_snapshot;
       const bool p = probes && probe_c.due(t);
       const bool h = hist_c.due(t);
-      if (!(s || p || h)) return;
+      const bool r = regions && region_c.due(t);
+      if (!(s || p || h || r)) return;
       stepper_->validate(model_, U_, t);
       stepper_->op().primitives(model_, t, U_, prim_);
       if (s && t != t_snap_last) {
         append_snapshot(snaps, t, step);
+        waves_->snapshot(t, step, model_, prim_);
         t_snap_last = t;
         ++sum.snapshots;
       }
@@ -203,7 +184,11 @@ class CaseRunner {
         append_probes(*probes, t, step);
         ++sum.probe_samples;
       }
-      if (h) append_history(history, t, step);
+      if (h) {
+        append_history(history, t, step);
+        waves_->history(t, step, model_, prim_, *stepper_);
+      }
+      if (r) waves_->region_sample(t, step, model_, prim_);
     };
     Progress prog;
     prog.t_end = c_.t_end;
@@ -234,8 +219,9 @@ class CaseRunner {
         }
         real next = c_.t_end;
         const char* cap = "end time";
-        for (const auto* cd : {&snap_c, &probe_c, &hist_c}) {
+        for (const auto* cd : {&snap_c, &probe_c, &hist_c, &region_c}) {
           if (cd == &probe_c && !probes) continue;
+          if (cd == &region_c && !regions) continue;
           // An output time within round-off of the end is the end (no sliver steps).
           if (cd->next_time() < next && cd->next_time() < c_.t_end * (1 - 1e-12)) {
             next = cd->next_time();
@@ -245,6 +231,7 @@ class CaseRunner {
         const StepInfo info = stepper_->step(model_, U_, t, next - t, cap);
         t = info.dt == next - t ? next : t + info.dt;
         ++step;
+        waves_->after_step(t, *stepper_);
         prog.dt = info.dt;
         prog.limited_by = info.limited_by;
         write_outputs(false);
@@ -258,6 +245,7 @@ class CaseRunner {
         stepper_->op().primitives(model_, t, U_, prim_);
         if (t != t_snap_last) {
           append_snapshot(snaps, t, step);
+          waves_->snapshot(t, step, model_, prim_);
           t_snap_last = t;
           ++sum.snapshots;
         }
@@ -269,9 +257,11 @@ class CaseRunner {
       stepper_->op().primitives(model_, t, U_, prim_);
       if (t != t_snap_last) {  // the last good state, unless it is already the last snapshot
         append_snapshot(snaps, t, step);
+        waves_->snapshot(t, step, model_, prim_);
         ++sum.snapshots;
       }
     }
+    sum.notes = waves_->finish(out, t);
     const double wall = std::chrono::duration<double>(clock::now() - t0).count();
     out.close_as(outcome, message, step, t, wall);
     io::write_xdmf_sidecar(c_.output.file);  // RUN.xmf: the snapshots for XDMF viewers
@@ -379,6 +369,7 @@ class CaseRunner {
   Field<State> prim_;  ///< primitives of U_ at the time of the latest output
   SpatialScheme scheme_;
   std::optional<Stepper<M>> stepper_;
+  std::optional<WaveOutput<M>> waves_;  ///< budgets, antenna power, Elsasser parts, regions
   std::vector<int> probe_cell_;
   std::vector<real> probe_weight_;
   std::vector<real> buf_;

@@ -25,6 +25,7 @@
 ///   whose primitives are per cell, the step is therefore chosen from a cheaper survey of
 ///   U^n (the signal speeds of the cell states, not of reconstructed face states;
 ///   FvOperator::survey); otherwise the first evaluation is a full one.
+#include <algorithm>
 #include <cmath>
 #include <sstream>
 #include <string>
@@ -32,6 +33,7 @@
 
 #include "core/error.hpp"
 #include "core/parallel.hpp"
+#include "core/simd_loops.hpp"
 #include "models/model.hpp"
 #include "numerics/fv_operator.hpp"
 #include "time/integrators.hpp"
@@ -123,15 +125,27 @@ class Stepper {
         boundary_flux_[0][k] += st.weight * dt * rep.flux_left[k];
         boundary_flux_[1][k] += st.weight * dt * rep.flux_right[k];
       }
+      {
+        const real wdt = st.weight * dt;
+        energy_in_[0] += wdt * rep.energy_flux_left;
+        energy_in_[1] -= wdt * rep.energy_flux_right;
+        source_work_.resize(rep.source_power.size(), 0.0);
+        for (std::size_t j = 0; j < rep.source_power.size(); ++j) source_work_[j] += wdt * rep.source_power[j];
+        dissipated_ += wdt * rep.dissipation;
+      }
       const Field<State>& base = rk_base();
-      // The stage update on the flat storage (n_cells * N contiguous reals) vectorises.
+      // The stage update on the flat storage (n_cells * N contiguous reals), in chunks that
+      // the vectorised loop (core/simd_loops.hpp) takes one at a time.
       real* u = U[0].data();
       const real* u0 = base[0].data();
       const real* l = L_[0].data();
       const long len = static_cast<long>(n) * N;
-      const real a = st.a, b = st.b;
+      const long n_chunks = (len + flat_chunk - 1) / flat_chunk;
 #pragma omp parallel for schedule(static) if (run_parallel(n))
-      for (long j = 0; j < len; ++j) u[j] = a * u0[j] + b * (u[j] + dt * l[j]);
+      for (long c = 0; c < n_chunks; ++c) {
+        const long j0 = c * flat_chunk;
+        simd::stage_update(std::min(flat_chunk, len - j0), st.a, st.b, dt, u0 + j0, l + j0, u + j0);
+      }
     }
     if (split) split_half_step(m, U, t + 0.5 * dt, 0.5 * dt);
     if constexpr (HasStiffSource<M>) m.stiff_source_step(g, U, t + 0.5 * dt, 0.5 * dt);
@@ -163,6 +177,14 @@ class Stepper {
   /// the start (per unit cross-section).
   [[nodiscard]] const std::array<State, 2>& boundary_flux_integrals() const { return boundary_flux_; }
   void set_boundary_flux_integrals(const std::array<State, 2>& b) { boundary_flux_ = b; }
+
+  /// Energy per unit area that entered through the left (0) and right (1) ends since the
+  /// start [J/m^2] (positive inward; models with energy_flux), with the stage weights.
+  [[nodiscard]] const std::array<real, 2>& energy_inflow() const { return energy_in_; }
+  /// Work done by each source term since the start [J/m^2] (order of FvOperator::sources).
+  [[nodiscard]] const std::vector<real>& source_work() const { return source_work_; }
+  /// Heat released by the model's dissipation since the start [J/m^2].
+  [[nodiscard]] const Dissipation& dissipated() const { return dissipated_; }
 
   /// The time step the operator would choose at U (no step taken); for `check`.
   StepInfo probe_dt(const M& m, const Field<State>& U, real t) {
@@ -235,6 +257,13 @@ class Stepper {
         boundary_flux_[0][k] += f[0][k];
         boundary_flux_[1][k] += f[1][k];
       }
+      if constexpr (HasEnergyFlux<M>) {
+        // The energy in these time-integrated end fluxes (exact where the energy is a
+        // conserved component; the edge cells' states stand in for the face states).
+        const int n = op_.grid().n_cells;
+        energy_in_[0] += m.energy_flux(f[0], m.prim_from_cons(U[0]));
+        energy_in_[1] -= m.energy_flux(f[1], m.prim_from_cons(U[n - 1]));
+      }
     } else {
       (void)m, (void)U, (void)t, (void)dt;
     }
@@ -278,6 +307,9 @@ class Stepper {
   real t_good_ = 0;
   bool have_good_ = false;
   std::array<State, 2> boundary_flux_{};
+  std::array<real, 2> energy_in_{};
+  std::vector<real> source_work_;
+  Dissipation dissipated_;
 };
 
 }  // namespace tw

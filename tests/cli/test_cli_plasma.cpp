@@ -239,11 +239,12 @@ TEST_CASE("cli: plasma rejects bad flags with exit code 2", "[unit][cli]") {
 }
 
 TEST_CASE("plasma: a run file gives the same parameters as the equivalent flags", "[unit][cli]") {
-  // The demo column's plasma section (He, n_e = 1.5e18 m^-3, B = 0.1 T, T_e = 6 eV,
-  // T_i = 1 eV) must give exactly the output of the same values as flags.
+  // The demo column's plasma at its left end (He, n_e = 4e18 m^-3, B = 0.15 T, T_e = 6 eV,
+  // T_i = 1 eV, from its profile table) must give exactly the output of the same values
+  // as flags.
   const std::string cfg = tw::test::source_path("configs/demo_column.yaml").string();
   const auto from_file = tw::test::run_tubewave("plasma '" + cfg + "' --json");
-  const auto from_flags = tw::test::run_tubewave("plasma --n 1.5e18 --B 0.1 --ion He --Te 6 --Ti 1 --json");
+  const auto from_flags = tw::test::run_tubewave("plasma --n 4e18 --B 0.15 --ion He --Te 6 --Ti 1 --json");
   REQUIRE(from_file.exit_code == 0);
   REQUIRE(from_flags.exit_code == 0);
   CHECK(from_file.output == from_flags.output);

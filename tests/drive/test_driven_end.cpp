@@ -25,11 +25,17 @@ TEST_CASE("driven end launches an Alfvén wave at v_A with the plate amplitude",
   // outgoing wave until t_end.
   ScratchDir dir("driven");
   const double t_end = 70e-6;  // reflections from the far end reach 8 m after 80 us
-  const RunOutput r = run_config("configs/demo_column.yaml",
-                                 {"boundaries.right.kind=zero-gradient", "grid.length=40", "grid.cells=2000",
-                                  "time.end=" + std::to_string(t_end), "output.probes=[4.0, 8.0]",
-                                  "output.probe_interval=2e-8"},
-                                 dir);
+  const std::string text = R"(
+title: plate-driven shear Alfven wave
+plasma: {ion: He, density: 1.5e18, electron_temperature: 6, ion_temperature: 1, field: 0.1}
+grid: {length: 40.0, cells: 2000}
+time: {end: 70.0e-6}
+boundaries:
+  left: {kind: driven, velocity_amplitude: 2000.0, frequency: 100.0e3, polarization: y, ramp_periods: 2}
+  right: {kind: zero-gradient}
+output: {snapshot_interval: 10.0e-6, probe_interval: 2.0e-8, probes: [4.0, 8.0]}
+)";
+  const RunOutput r = run_text(text, {}, dir);
   REQUIRE(r.summary.outcome == "completed");
   REQUIRE(r.n_probes == 2);
   const auto& t = r.probes.at("time");

@@ -73,8 +73,7 @@ TEST_CASE("two-fluid setup: bad input names the key and the reason", "[unit][two
       {{"initial.kind=langmuir", "initial.amplitude=1.5"}, {"initial.amplitude", "below 1"}},
       {{"initial.kind=langmuir", "initial.direction=backward"}, {"initial.direction", "only the circular kind"}},
       {{"initial.mode=fast"}, {"initial.mode", "MHD's wave kind"}},
-      {{"boundaries.left.kind=driven", "boundaries.left.frequency=1e6", "boundaries.left.velocity_amplitude=10"},
-       {"boundaries.left.kind", "cannot be driven"}},
+      // (Driven ends work for the two-fluid model: tests/drive/test_twofluid_drives.cpp.)
       // The other model must not silently ignore the two-fluid keys.
       {{"model.equations=mhd", "model.mass_ratio=100"}, {"model.mass_ratio", "only the two-fluid model reads this key"}},
       {{"model.equations=mhd", "initial.kind=langmuir"}, {"initial.kind", "not available for the mhd model"}},

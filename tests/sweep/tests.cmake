@@ -16,7 +16,7 @@ if(TUBEWAVE_HAVE_MPI)
 endif()
 add_dependencies(tubewave_sweep_tests tubewave)
 catch_discover_tests(tubewave_sweep_tests TEST_SPEC "[unit]"
-  PROPERTIES LABELS unit ENVIRONMENT "OMP_NUM_THREADS=2")
+  PROPERTIES LABELS unit ENVIRONMENT "OMP_NUM_THREADS=1")
 
 # The example sweeps in configs/sweeps/: each is validated (`--list` checks every case's run
 # file) and run with shortened cases into the build tree.
