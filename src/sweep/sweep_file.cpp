@@ -73,7 +73,8 @@ io::Schema build_schema() {
   io::Section& pr = r.section_list("predict", "analytic predictions put beside the measurements");
   pr.string("formula",
             "prediction source: mhd-fast, mhd-alfven, mhd-slow, mhd-alfven-resistive, hall-right, hall-left "
-            "(the closed forms of scripts-post/twdispersion.py)")
+            "(the closed forms of scripts-post/twdispersion.py), or modes:N (forward branch N of tubewave modes, "
+            "in builds that have it)")
       .require();
   pr.choice("given", {"auto", "frequency", "wavenumber"},
             "evaluate at a frequency (a driven run: the drive's, or `frequency`) or at a wavenumber (an "
