@@ -4,7 +4,7 @@
 //                           [--tubewave PATH] [--local] [--keep]
 //
 // 24 cases of unequal cost, an invented 16 m helium column (n_e = 1.5e18 m^-3, B = 0.1 T)
-// driven at its end: 8 grid sizes from 400 to 2000 cells (the cost of a case grows as
+// driven at its end: 8 grid sizes from 800 to 4000 cells (the cost of a case grows as
 // cells^2: more cells and, by the CFL limit, more steps; the largest case costs 25 times
 // the smallest) x 3 drive frequencies, each measured (velocity_y: wavelength, phase speed).
 // Outputs are sparse enough that the CFL limit, not output times, sets the step.
@@ -36,7 +36,7 @@ namespace {
 const char* base_yaml = R"(title: bench column (invented)
 model: {equations: mhd}
 plasma: {ion: He, density: 1.5e18, electron_temperature: 6, ion_temperature: 1, field: 0.1}
-grid: {length: 16.0, cells: 400}
+grid: {length: 16.0, cells: 800}
 time: {end: 2.0e-5}
 boundaries:
   left: {kind: driven, velocity_amplitude: 2000.0, frequency: 100.0e3, polarization: y, ramp_periods: 2}
@@ -48,7 +48,7 @@ const char* sweep_yaml = R"(title: scheduling benchmark, 24 cases of unequal cos
 base: base.yaml
 parameters:
   - key: grid.cells
-    log: {from: 400, to: 2000, count: 8}
+    log: {from: 800, to: 4000, count: 8}
   - key: boundaries.left.frequency
     values: [1.0e5, 1.5e5, 2.0e5]
 measure:
