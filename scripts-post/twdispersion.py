@@ -13,7 +13,7 @@ are those of the run (SI, or the code units of a normalized run). Only numpy is 
 
 Sources are named beside each formula; "[M]" marks a reference quoted from memory.
 A case can instead name its reference as {modes = {...}}: those are eigenvalues from
-`tubewave modes`, computed by the runner when that command exists.
+`tubewave modes`, which the runner calls on the case's run file (validation/run_all.py).
 """
 import numpy as np
 

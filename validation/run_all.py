@@ -42,6 +42,7 @@ CASE_KEYS = {"title", "model", "run", "set", "field", "measure", "reference", "g
 CONVERGENCE_KEYS = {"quantity", "variants", "order", "min_order"}
 VARIANT_KEYS = {"name", "set", "quick", "tolerance", "measure", "panel"}
 CHECK_KEYS = {"quantity", "tolerance", "absolute"}
+MODES_KEYS = {"branch"}
 
 
 class CaseError(Exception):
@@ -72,6 +73,13 @@ def load_cases(case_dir):
         ref = c["reference"]
         _require(isinstance(ref, dict) and len(ref) == 1 and ("formula" in ref or "modes" in ref), path,
                  "reference must be {formula = \"ID\"} or {modes = {...}}")
+        if "modes" in ref:
+            _require(isinstance(ref["modes"], dict), path, "reference.modes must be a table, e.g. {branch = 2}")
+            for k in ref["modes"]:
+                _require(k in MODES_KEYS, path, f"reference.modes: unknown key '{k}' (known: {', '.join(sorted(MODES_KEYS))})")
+            b = ref["modes"].get("branch")
+            _require(b is None or (isinstance(b, int) and b >= 1), path,
+                     "reference.modes.branch must be a forward branch number >= 1 (as tubewave modes numbers them)")
         if "formula" in ref:
             _require(ref["formula"] in twdispersion.FORMULAS, path,
                      f"reference.formula '{ref['formula']}' is not one of: {', '.join(sorted(twdispersion.FORMULAS))}")
@@ -159,11 +167,7 @@ def analytic(v, figures, bg, tubewave):
     """Analytic values of every quantity for this variant, or (None, reason)."""
     ref = v["reference"]
     if "modes" in ref:
-        # Eigenvalues of the model's linearised equations from `tubewave modes` (when built).
-        probe = subprocess.run([tubewave, "--help"], capture_output=True, text=True)
-        if " modes " not in probe.stdout:
-            return None, "reference 'modes' needs `tubewave modes`, which this build does not have"
-        return None, "reference 'modes': the runner does not yet call `tubewave modes`"
+        return modes_reference(v, figures, tubewave)
     fid = ref["formula"]
     sign = 1.0 if v["direction"] == "forward" else -1.0
     if v["given"] == "frequency":
@@ -180,6 +184,79 @@ def analytic(v, figures, bg, tubewave):
         if name in q:
             q[name] *= sign
     return q, ""
+
+
+def _modes_json(v, tubewave, extra):
+    """`tubewave modes` on the variant's run file (with its --set overrides) as JSON."""
+    cmd = [tubewave, "modes", v["run"]]
+    for s in v["set"]:
+        cmd += ["--set", s]
+    p = subprocess.run(cmd + extra + ["--json"], capture_output=True, text=True, timeout=120)
+    if p.returncode != 0:
+        raise RuntimeError(f"tubewave modes failed (exit {p.returncode}): {_tail(p.stdout + p.stderr)}")
+    return json.loads(p.stdout)
+
+
+def modes_reference(v, figures, tubewave):
+    """Analytic values from the eigenvalues of the model's linearized equations, computed by
+    `tubewave modes` for the run's own plasma (at x_min) and k_perp: at the measured |k| the
+    forward branch `branch` (default: the one nearest the measured frequency), or at the
+    measured frequency the complex root nearest the measured wavenumber. Also the branch's
+    curve omega(k) for the dispersion figure."""
+    spec = v["reference"]["modes"]
+    sign = 1.0 if v["direction"] == "forward" else -1.0
+    try:
+        if v["given"] == "frequency":
+            w = figures["angular_frequency"]["value"]
+            km = figures["wavenumber"]["value"]
+            if w is None or km is None:
+                return None, "no measured frequency and wavenumber to compare with tubewave modes"
+            roots = _modes_json(v, tubewave, ["--freq", repr(abs(w) / (2 * math.pi))])["frequencies"][0]["roots"]
+            roots = [r for r in roots if r["wavenumber"] > 0] or roots
+            if not roots:
+                return None, "tubewave modes found no wavenumber at this frequency"
+            r = min(roots, key=lambda r: abs(r["wavenumber"] - abs(km)))
+            q = {"angular_frequency": abs(w), "frequency": abs(w) / (2 * math.pi), "wavenumber": sign * r["wavenumber"],
+                 "wavelength": r["wavelength"], "phase_speed": sign * r["phase_speed"],
+                 "spatial_damping_rate": r["spatial_damping_rate"], "damping_length": r["damping_length"]}
+            return q, ""
+        k = figures["wavenumber"]["value"]
+        if k is None:
+            return None, "no measured wavenumber to evaluate tubewave modes at"
+        k = abs(k)
+        fwd = [b for b in _modes_json(v, tubewave, ["--k", repr(k)])["wavenumbers"][0]["branches"]
+               if b["direction"] == "forward"]
+        if "branch" in spec:
+            match = [b for b in fwd if b["number"] == spec["branch"]]
+            if not match:
+                return None, f"tubewave modes has no forward branch {spec['branch']} at k = {k:g}"
+            b = match[0]
+        else:
+            wm = figures["angular_frequency"]["value"]
+            if wm is None:
+                return None, "no measured frequency to choose the nearest branch of tubewave modes"
+            b = min(fwd, key=lambda b: abs(b["angular_frequency"] - abs(wm)))
+        # The branch's curve omega(k) for the figure, followed from the measured k by
+        # continuity (numbers change where other branches stop propagating).
+        scan = _modes_json(v, tubewave, ["--k", f"{k / 40!r}:{1.15 * k!r}:47"])["wavenumbers"]
+        rows = [(r["k"], [c["angular_frequency"] for c in r["branches"] if c["direction"] == "forward"]) for r in scan]
+        start = min(range(len(rows)), key=lambda i: abs(rows[i][0] - k))
+        curve = {}
+        for order in (range(start, len(rows)), range(start, -1, -1)):
+            w_prev = b["angular_frequency"] * rows[start][0] / k
+            for i in order:
+                if not rows[i][1]:
+                    break
+                w_prev = min(rows[i][1], key=lambda w: abs(w - w_prev))
+                curve[rows[i][0]] = w_prev
+        curve = sorted(curve.items())
+        q = {"wavenumber": sign * k, "wavelength": 2 * math.pi / k, "angular_frequency": b["angular_frequency"],
+             "frequency": b["frequency"], "phase_speed": sign * b["phase_speed"],
+             "group_speed": sign * b["group_speed"], "damping_rate": b["damping_rate"],
+             "_curve": curve, "_branch": b["number"]}
+        return q, ""
+    except (RuntimeError, subprocess.TimeoutExpired, KeyError, IndexError, ValueError) as e:
+        return None, f"reference 'modes': {e}"
 
 
 def run_variant(v, tubewave, out_dir):
@@ -223,6 +300,8 @@ def run_variant(v, tubewave, out_dir):
             row["note"] = why
         elif f["value"] is None:
             row["note"] = "not measured: " + f["method"]
+        elif q not in ref:
+            row["note"] = f"the reference gives no {q} here"
         else:
             a = ref[q]
             row["analytic"] = a
@@ -236,7 +315,8 @@ def run_variant(v, tubewave, out_dir):
         point = {"panel": v["panel"], "branches": v["branches"], "bg": bg, "k": abs(k["value"]),
                  "k_sigma": k["uncertainty"], "omega": abs(w["value"]), "omega_sigma": w["uncertainty"],
                  "formula": v["reference"].get("formula"), "normalized": bg.get("normalized", False),
-                 "case": v["id"]}
+                 "case": v["id"], "modes_curve": (ref or {}).get("_curve"),
+                 "modes_label": f"modes branch {ref['_branch']}" if ref and "_branch" in ref else None}
     return {"variant": v, "rows": rows, "point": point, "seconds": time.time() - t0}
 
 
@@ -315,6 +395,13 @@ def write_figure(results, out_dir):
         for b in branches:
             k, w = twdispersion.branch_curve(b, pts[0]["bg"], kmax)
             ax.plot(k, w, "-", color=colour[b], lw=1.2, alpha=0.85, label=b)
+        drawn = set()
+        for p in pts:  # branches of `tubewave modes` (modes references), one curve per label
+            if p.get("modes_curve") and p["modes_label"] not in drawn:
+                drawn.add(p["modes_label"])
+                kk, ww = zip(*p["modes_curve"])
+                ax.plot(kk, ww, "--", color=twrun.PALETTE[(len(branches) + len(drawn)) % len(twrun.PALETTE)],
+                        lw=1.2, alpha=0.85, label=p["modes_label"])
         for p in pts:
             c = colour.get(p["formula"], twrun.INK)
             ax.errorbar(p["k"], p["omega"], xerr=p["k_sigma"] or 0, yerr=p["omega_sigma"] or 0, fmt="o", ms=4.5,

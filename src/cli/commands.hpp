@@ -22,5 +22,9 @@ int cmd_check(std::span<const std::string> args);
 int cmd_keys(std::span<const std::string> args);
 /// `tubewave measure`: wave figures of a finished run (cmd_measure.cpp).
 int cmd_measure(std::span<const std::string> args);
+/// `tubewave modes`: linear dispersion relation of a model (cmd_modes.cpp).
+int cmd_modes(std::span<const std::string> args);
+/// `tubewave sweep`: batches of cases from a sweep file (cmd_sweep.cpp).
+int cmd_sweep(std::span<const std::string> args);
 
 }  // namespace tw::cli

@@ -31,6 +31,10 @@ constexpr std::array commands{
             tw::cli::cmd_measure},
     Command{"plasma", "print derived plasma parameters (speeds, frequencies, lengths, collisions)",
             tw::cli::cmd_plasma},
+    Command{"modes", "linear dispersion relation of a model: every branch omega(k), or k at a drive frequency",
+            tw::cli::cmd_modes},
+    Command{"sweep", "run a batch of cases from a sweep file (locally or under MPI) into a summary table",
+            tw::cli::cmd_sweep},
 };
 // ---------------------------------------------------------------------------------------
 

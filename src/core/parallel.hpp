@@ -10,4 +10,8 @@ inline constexpr long parallel_min_iterations = 2048;
 
 inline bool run_parallel(long iterations) { return iterations >= parallel_min_iterations; }
 
+/// Values per chunk when a flat element-wise loop is shared between threads: each thread
+/// runs the vectorised loop over whole chunks.
+inline constexpr long flat_chunk = 1024;
+
 }  // namespace tw

@@ -166,7 +166,11 @@ WaveData load_wave_data(const io::H5Reader& r, const std::string& field, const R
 }
 
 void store_measurement(const std::string& path, const WaveMeasurement& m, const std::string& window) {
-  io::replace_group(path, "/measurements/" + m.field, [&](io::GroupWriter& g) {
+  io::replace_group(path, "/measurements/" + m.field, [&](io::GroupWriter& g) { fill_measurement(g, m, window); });
+}
+
+void fill_measurement(io::GroupWriter& g, const WaveMeasurement& m, const std::string& window) {
+  {
     g.attribute("", "field", m.field);
     g.attribute("", "complex", std::string(m.complex_field ? "yes" : "no"));
     g.attribute("", "created", utc_now());
@@ -214,7 +218,7 @@ void store_measurement(const std::string& path, const WaveMeasurement& m, const 
       o.attribute("", "x_stride", static_cast<real>(s.x_stride));
       o.attribute("", "note", s.note);
     }
-  });
+  }
 }
 
 }  // namespace tw::diag

@@ -22,6 +22,7 @@
 
 #include "diagnostics/wave_measure.hpp"
 #include "io/h5read.hpp"
+#include "io/h5update.hpp"
 
 namespace tw::diag {
 
@@ -51,5 +52,10 @@ struct RunLayout {
 /// Store a measurement under /measurements/FIELD of `path`, replacing an earlier one of
 /// the same field; other fields' results stay. `window` describes the data used.
 void store_measurement(const std::string& path, const WaveMeasurement& m, const std::string& window);
+
+/// Write a measurement into `g` (the group /measurements/FIELD of a file being updated,
+/// see io::replace_groups): what store_measurement writes, for callers that update several
+/// groups at once.
+void fill_measurement(io::GroupWriter& g, const WaveMeasurement& m, const std::string& window);
 
 }  // namespace tw::diag

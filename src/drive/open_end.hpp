@@ -18,7 +18,9 @@
 ///
 /// The decomposition is model-generic: it uses only the model's flux and conservative map
 /// (numerical Jacobian, models/eigen_modes.hpp), with the model's conserved_scale for the
-/// step sizes where it has one. If a ghost state comes out inadmissible (a wave far from
+/// step sizes where it has one. A model whose flux depends on the face (linearized models on
+/// a varying background) supplies the projector itself: open_end_projector(side), the
+/// N x N row-major matrix P of the end's outgoing characteristics (HasOpenEndProjector). If a ghost state comes out inadmissible (a wave far from
 /// linear), the end falls back to copying the interior (zero gradient) for that fill.
 #include <cmath>
 #include <string>
@@ -55,6 +57,12 @@ CharacteristicBasis characteristic_basis(const M& m, const typename M::State& W)
   return conservative_basis(N, flux, u0, s);
 }
 
+/// Models that give the projector onto the outgoing characteristics at an end themselves.
+template <class M>
+concept HasOpenEndProjector = requires(const M m, Side side) {
+  { m.open_end_projector(side) } -> std::same_as<std::vector<real>>;
+};
+
 template <Model M>
 class OpenBoundary final : public Boundary<M> {
  public:
@@ -63,6 +71,13 @@ class OpenBoundary final : public Boundary<M> {
 
   /// `W_ref`: the reference (background) primitive state at this end.
   OpenBoundary(const M& m, Side side, const State& W_ref) : U_ref_(m.cons_from_prim(W_ref)) {
+    if constexpr (HasOpenEndProjector<M>) {
+      P_ = m.open_end_projector(side);
+      real trace = 0;
+      for (int k = 0; k < N; ++k) trace += P_[static_cast<std::size_t>(k * N + k)];
+      n_outgoing_ = static_cast<int>(std::lround(trace));
+      return;
+    }
     const CharacteristicBasis b = characteristic_basis(m, W_ref);
     real smax = 0;
     for (real v : b.speeds) smax = std::max(smax, std::abs(v));

@@ -171,8 +171,13 @@ void GroupWriter::attribute(const std::string& object, const std::string& name, 
 
 void replace_group(const std::string& file, const std::string& group,
                    const std::function<void(GroupWriter&)>& fill) {
+  replace_groups(file, {GroupFill{group, fill}});
+}
+
+void replace_groups(const std::string& file, const std::vector<GroupFill>& groups) {
   h5::silence_error_printing();
-  TW_CHECK(group.size() > 1 && group[0] == '/' && group.back() != '/', "bad group path '" + group + "'");
+  for (const auto& g : groups)
+    TW_CHECK(g.group.size() > 1 && g.group[0] == '/' && g.group.back() != '/', "bad group path '" + g.group + "'");
   const std::string temp = file + ".tmp." + std::to_string(::getpid());
   std::error_code ec;
   if (fs::exists(temp, ec))
@@ -185,32 +190,34 @@ void replace_group(const std::string& file, const std::string& group,
     Handle fapl = own(H5Pcreate(H5P_FILE_ACCESS), Kind::plist, temp, "create file access properties");
     check(H5Pset_fclose_degree(fapl.get(), H5F_CLOSE_STRONG), temp, "set file close degree");
     Handle f = own(H5Fopen(temp.c_str(), H5F_ACC_RDWR, fapl.get()), Kind::file, temp, "open for writing");
-    // Parents: open or create each component; the last one is replaced.
-    Handle parent = own(H5Gopen2(f.get(), "/", H5P_DEFAULT), Kind::group, temp, "open group", "/");
-    std::string path;
-    std::size_t pos = 1;
-    while (true) {
-      const std::size_t next = group.find('/', pos);
-      const std::string name = group.substr(pos, next == std::string::npos ? std::string::npos : next - pos);
-      path += "/" + name;
-      const bool last = next == std::string::npos;
-      const bool exists = H5Lexists(parent.get(), name.c_str(), H5P_DEFAULT) > 0;
-      (void)H5Eclear2(H5E_DEFAULT);
-      if (last) {
-        if (exists) check(H5Ldelete(parent.get(), name.c_str(), H5P_DEFAULT), temp, "remove the old group", path);
-        auto im = std::make_unique<GroupWriter::Impl>();
-        im->file = temp;
-        im->path = path;
-        im->group = create_ordered_group(parent.get(), name, temp, path);
-        GroupWriter w(std::move(im));
-        fill(w);
-        break;
+    for (const auto& g : groups) {
+      const std::string& group = g.group;
+      // Parents: open or create each component; the last one is replaced.
+      Handle parent = own(H5Gopen2(f.get(), "/", H5P_DEFAULT), Kind::group, temp, "open group", "/");
+      std::string path;
+      std::size_t pos = 1;
+      while (true) {
+        const std::size_t next = group.find('/', pos);
+        const std::string name = group.substr(pos, next == std::string::npos ? std::string::npos : next - pos);
+        path += "/" + name;
+        const bool last = next == std::string::npos;
+        const bool exists = H5Lexists(parent.get(), name.c_str(), H5P_DEFAULT) > 0;
+        (void)H5Eclear2(H5E_DEFAULT);
+        if (last) {
+          if (exists) check(H5Ldelete(parent.get(), name.c_str(), H5P_DEFAULT), temp, "remove the old group", path);
+          auto im = std::make_unique<GroupWriter::Impl>();
+          im->file = temp;
+          im->path = path;
+          im->group = create_ordered_group(parent.get(), name, temp, path);
+          GroupWriter w(std::move(im));
+          g.fill(w);
+          break;
+        }
+        parent = exists ? own(H5Gopen2(parent.get(), name.c_str(), H5P_DEFAULT), Kind::group, temp, "open group", path)
+                        : create_ordered_group(parent.get(), name, temp, path);
+        pos = next + 1;
       }
-      parent = exists ? own(H5Gopen2(parent.get(), name.c_str(), H5P_DEFAULT), Kind::group, temp, "open group", path)
-                      : create_ordered_group(parent.get(), name, temp, path);
-      pos = next + 1;
     }
-    parent.reset();
     check(H5Fflush(f.get(), H5F_SCOPE_GLOBAL), temp, "flush");
     check(f.close(), temp, "close");
   }

@@ -25,6 +25,7 @@
 #include <memory>
 #include <span>
 #include <string>
+#include <vector>
 
 #include "core/types.hpp"
 
@@ -68,5 +69,16 @@ class GroupWriter {
 /// `fill` writes, atomically (see the file comment).
 void replace_group(const std::string& file, const std::string& group,
                    const std::function<void(GroupWriter&)>& fill);
+
+/// One group of a multi-group update: its absolute path and what writes it.
+struct GroupFill {
+  std::string group;
+  std::function<void(GroupWriter&)> fill;
+};
+
+/// Replace several groups in one copy-and-rename (one copy of the file instead of one per
+/// group; the sweep stores its measurements and its completion record this way). Groups are
+/// written in order; a later group may not lie inside an earlier one.
+void replace_groups(const std::string& file, const std::vector<GroupFill>& groups);
 
 }  // namespace tw::io

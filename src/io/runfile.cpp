@@ -131,6 +131,8 @@ const char* type_word(KeyType t) {
       return "a list of sections";
     case KeyType::real_or_section:
       return "a number or a section";
+    case KeyType::text_list:
+      return "a list of words";
   }
   return "?";
 }
@@ -216,7 +218,7 @@ std::optional<ResolveError> resolve(const Section& root, const std::vector<Segme
     if (seg.index) {
       if (spec->type == KeyType::section_list)
         sec = spec->sub.get();
-      else if (spec->type == KeyType::real_list)
+      else if (spec->type == KeyType::real_list || spec->type == KeyType::text_list)
         sec = nullptr;
       else
         return ResolveError{path_prefix(segs, i + 1, false),
@@ -497,16 +499,7 @@ class Validator {
       case KeyType::choice: {
         v.kind = Value::Kind::text;
         v.s = text(k, raw, path, "one word");
-        bool ok = false;
-        for (const auto& c : k.choices) ok = ok || c == v.s;
-        if (!ok) {
-          std::string r = "must be one of: ";
-          for (std::size_t i = 0; i < k.choices.size(); ++i) r += (i ? ", " : "") + k.choices[i];
-          r += " (got '" + v.s + "')";
-          const std::string near = detail::nearest_name(v.s, k.choices);
-          if (!near.empty()) r += "; did you mean '" + near + "'?";
-          throw ConfigError(raw.pos, path, r);
-        }
+        check_choice(k, v.s, raw, path);
         break;
       }
       case KeyType::real_list: {
@@ -527,6 +520,24 @@ class Validator {
           e.given = given;
           e.pos = raw.items[i].pos;
           e.r = number(k, raw.items[i], indexed(path, i));
+          v.items.push_back(std::move(e));
+        }
+        break;
+      }
+      case KeyType::text_list: {
+        v.kind = Value::Kind::list;
+        if (raw.kind == Raw::Kind::null) no_value(k, raw, path);
+        if (raw.kind != Raw::Kind::seq)
+          throw ConfigError(raw.pos, path,
+                            "must be a list of words such as [a, b] (got " + describe_raw(raw) + ")");
+        for (std::size_t i = 0; i < raw.items.size(); ++i) {
+          Value e;
+          e.kind = Value::Kind::text;
+          e.spec = &k;
+          e.given = given;
+          e.pos = raw.items[i].pos;
+          e.s = text(k, raw.items[i], indexed(path, i), "a word");
+          if (!k.choices.empty()) check_choice(k, e.s, raw.items[i], indexed(path, i));
           v.items.push_back(std::move(e));
         }
         break;
@@ -570,6 +581,20 @@ class Validator {
         break;
     }
     return v;
+  }
+
+  /// A word that must be one of the key's choices.
+  static void check_choice(const KeySpec& k, const std::string& word, const Raw& raw,
+                           const std::string& path) {
+    bool ok = false;
+    for (const auto& c : k.choices) ok = ok || c == word;
+    if (ok) return;
+    std::string r = "must be one of: ";
+    for (std::size_t i = 0; i < k.choices.size(); ++i) r += (i ? ", " : "") + k.choices[i];
+    r += " (got '" + word + "')";
+    const std::string near = detail::nearest_name(word, k.choices);
+    if (!near.empty()) r += "; did you mean '" + near + "'?";
+    throw ConfigError(raw.pos, path, r);
   }
 
   [[noreturn]] static void no_value(const KeySpec& k, const Raw& raw, const std::string& path) {
@@ -826,6 +851,20 @@ Lookup find_value(const Section& schema_root, const Value& root, std::string_vie
 
 }  // namespace
 
+const KeySpec* declared_key(const Schema& schema, std::string_view path, std::string* why) {
+  std::vector<Segment> segs;
+  if (std::string err = parse_path(path, segs); !err.empty() || segs.empty()) {
+    if (why) *why = segs.empty() && err.empty() ? "the key path is empty" : "malformed key path: " + err;
+    return nullptr;
+  }
+  std::vector<Step> steps;
+  if (auto err = resolve(schema.root(), segs, steps, true)) {
+    if (why) *why = "key '" + err->key_path + "': " + err->reason;
+    return nullptr;
+  }
+  return steps.back().spec;
+}
+
 RunFile::RunFile(std::unique_ptr<Impl> impl) : impl_(std::move(impl)) {}
 RunFile::RunFile(const RunFile& other)
     : impl_(other.impl_ ? std::make_unique<Impl>(*other.impl_) : nullptr) {}
@@ -957,6 +996,14 @@ std::vector<real> RunFile::get_reals(std::string_view path) const {
   return r;
 }
 
+std::vector<std::string> RunFile::get_strings(std::string_view path) const {
+  const Lookup l = find_value(*impl_->schema_root, impl_->root, path);
+  require_type(l, path, l.spec && !l.element && l.spec->type == KeyType::text_list, "get_strings");
+  std::vector<std::string> r;
+  for (const auto& e : require_value(l, path).items) r.push_back(e.s);
+  return r;
+}
+
 std::size_t RunFile::count(std::string_view path) const {
   const Lookup l = find_value(*impl_->schema_root, impl_->root, path);
   require_type(l, path, l.spec && !l.element && l.spec->type == KeyType::section_list, "count");
@@ -997,11 +1044,14 @@ void emit(YAML::Emitter& out, const Value& v) {
       out << std::string(v.b ? "true" : "false");
       break;
     case Value::Kind::text:
-      if (v.spec->type == KeyType::string && detail::needs_quotes(v.s)) out << YAML::DoubleQuoted;
+      if ((v.spec->type == KeyType::string || v.spec->type == KeyType::text_list) &&
+          detail::needs_quotes(v.s))
+        out << YAML::DoubleQuoted;
       out << v.s;
       break;
     case Value::Kind::list:
-      if (v.spec->type == KeyType::real_list || v.items.empty()) out << YAML::Flow;
+      if (v.spec->type == KeyType::real_list || v.spec->type == KeyType::text_list || v.items.empty())
+        out << YAML::Flow;
       out << YAML::BeginSeq;
       for (const auto& e : v.items) emit(out, e);
       out << YAML::EndSeq;

@@ -24,6 +24,7 @@
 ///   exactly whole ("1e3", "2.0"; at most 2^53); 3.5 is rejected. boolean: exactly `true` or
 ///   `false`. string: any single value. choice: one of the declared words.
 ///   real_list: a list of numbers (any length, empty included, unless `length(n)`).
+///   text_list: a list of single values read as text (each one of the declared choices, if any).
 /// - An absent section is an empty one: its defaults are filled in and its required keys are
 ///   reported missing. An empty value ("numerics:") is an empty section / an empty list of
 ///   sections; for any other key it is an error ("has no value").
@@ -76,6 +77,11 @@ class ConfigError : public InputError {
   std::string key_path_;
 };
 
+/// The declaration a key path names ("plasma.density", "output.probes[0]": for an index,
+/// the list's declaration), or null with the reason, naming the nearest declared key, in
+/// `why`. For tools that take key paths from elsewhere than --set (sweep files).
+[[nodiscard]] const KeySpec* declared_key(const Schema& schema, std::string_view path, std::string* why = nullptr);
+
 class RunFile {
  public:
   /// Read and validate a file. A missing or unreadable file is a ConfigError too.
@@ -101,6 +107,7 @@ class RunFile {
   [[nodiscard]] bool get_bool(std::string_view path) const;
   [[nodiscard]] std::string get_string(std::string_view path) const;  ///< strings and choices
   [[nodiscard]] std::vector<real> get_reals(std::string_view path) const;
+  [[nodiscard]] std::vector<std::string> get_strings(std::string_view path) const;  ///< text_list keys
   /// Number of elements of a section_list (0 if absent).
   [[nodiscard]] std::size_t count(std::string_view path) const;
   /// For real_or_section keys: true if the map form was given.

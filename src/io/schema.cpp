@@ -69,6 +69,13 @@ KeySpec& KeySpec::def_list(const std::vector<real>& v) {
   return *this;
 }
 
+KeySpec& KeySpec::def_words(const std::vector<std::string>& v) {
+  std::string s = "[";
+  for (std::size_t i = 0; i < v.size(); ++i) s += (i ? ", " : "") + yaml_string(v[i]);
+  default_yaml = s + "]";
+  return *this;
+}
+
 // ---------------------------------------------------------------------------------------
 // Section builders
 
@@ -130,6 +137,16 @@ KeySpec& Section::real_list(const std::string& name, const std::string& unit,
   k.name = name;
   k.type = KeyType::real_list;
   k.unit = unit;
+  k.doc = doc;
+  return add(std::move(k));
+}
+
+KeySpec& Section::text_list(const std::string& name, const std::string& doc,
+                            std::vector<std::string> choices) {
+  KeySpec k;
+  k.name = name;
+  k.type = KeyType::text_list;
+  k.choices = std::move(choices);
   k.doc = doc;
   return add(std::move(k));
 }
@@ -221,6 +238,8 @@ std::string type_name(const KeySpec& k) {
       return "list of sections";
     case KeyType::real_or_section:
       return "real or section";
+    case KeyType::text_list:
+      return "list of words";
   }
   return "?";
 }
@@ -308,9 +327,10 @@ class MarkdownWriter {
       case KeyType::boolean:
         return "`true`, `false`";
       case KeyType::choice:
+      case KeyType::text_list:
         for (std::size_t i = 0; i < k.choices.size(); ++i)
           r += (i ? ", `" : "`") + k.choices[i] + "`";
-        return r;
+        return r.empty() || k.type == KeyType::choice ? r : "each " + r;
       case KeyType::real_list:
         r = detail::range_text(k);
         return r.empty() ? r : "each " + r;

@@ -7,7 +7,7 @@
 /// (`tubewave keys`), so documentation cannot drift from the code.
 ///
 /// Layout: a Section holds keys. A key is a scalar (real, integer, boolean, string, choice),
-/// a list of reals, a nested section, a list of sections (each element validated against
+/// a list of reals, a list of words, a nested section, a list of sections (each element validated against
 /// the same sub-section), or a "real or section" (a plain number, or a map validated against
 /// a sub-section; used for profiles along x).
 #include <memory>
@@ -29,6 +29,7 @@ enum class KeyType {
   section,          ///< a nested map validated against `sub`
   section_list,     ///< a YAML sequence of maps, each validated against `sub`
   real_or_section,  ///< a number, or a map validated against `sub`
+  text_list,        ///< a YAML sequence of words (each one of `choices`, when declared)
 };
 
 class Section;
@@ -43,7 +44,7 @@ struct KeySpec {
   std::optional<std::string> default_yaml;  ///< default as YAML text (absent: no default)
   std::optional<real> min, max;             ///< numeric range (integers too)
   bool min_exclusive = false, max_exclusive = false;
-  std::vector<std::string> choices;  ///< for KeyType::choice
+  std::vector<std::string> choices;  ///< for KeyType::choice (and text_list, when not empty)
   int list_length = -1;              ///< for real_list: required length, -1 = any (0 included)
   std::shared_ptr<Section> sub;      ///< for section / section_list / real_or_section
 
@@ -55,6 +56,7 @@ struct KeySpec {
   KeySpec& def(const char* v) { return def(std::string(v)); }
   KeySpec& def(const std::string& v);
   KeySpec& def_list(const std::vector<real>& v);
+  KeySpec& def_words(const std::vector<std::string>& v);  ///< default of a text_list
   KeySpec& at_least(real v) { min = v; min_exclusive = false; return *this; }
   KeySpec& above(real v) { min = v; min_exclusive = true; return *this; }
   KeySpec& at_most(real v) { max = v; max_exclusive = false; return *this; }
@@ -82,6 +84,8 @@ class Section : public std::enable_shared_from_this<Section> {
   KeySpec& string(const std::string& name, const std::string& doc);
   KeySpec& choice(const std::string& name, std::vector<std::string> choices, const std::string& doc);
   KeySpec& real_list(const std::string& name, const std::string& unit, const std::string& doc);
+  /// A list of words; with `choices`, every element must be one of them.
+  KeySpec& text_list(const std::string& name, const std::string& doc, std::vector<std::string> choices = {});
   /// Nested section; returns it so keys can be added. Declaring the same name twice returns
   /// the existing section (components may add keys to a shared section).
   Section& section(const std::string& name, const std::string& doc);

@@ -10,8 +10,16 @@
 ///      whole-grid recover_primitives() runs between the cell loop and the check;
 ///   2. ghost cells from the two boundary objects;
 ///   3. reconstruction of the two face values of each cell;
-///   4. numerical flux at each face, plus the model's gradient flux;
+///   4. numerical flux at each face, plus the model's gradient flux (a face-aware solver or
+///      gradient flux is told the face: see FaceAwareSolver, HasFaceGradientFlux);
 ///   5. flux difference plus sources.
+/// When the model registers a block kernel (BlockKernelFor<M>, numerics/fluxes.hpp), pass 1
+/// runs as that kernel over blocks of cells (it also keeps a copy of the primitive field as
+/// one array per variable), and, where it supports the scheme, passes 3 and 4 run as one
+/// kernel over blocks of faces. The kernels give bitwise the same results as the generic
+/// passes, only faster (set_block_kernel(false) forces the generic passes, for
+/// comparisons); everything else (boundaries, gradient fluxes, sources, limits, checks)
+/// is unchanged.
 /// No pass has an order-dependent floating-point reduction (max and min are exact), so
 /// results are bitwise identical for any thread count.
 #include <algorithm>
@@ -25,6 +33,7 @@
 
 #include "core/error.hpp"
 #include "core/parallel.hpp"
+#include "core/simd_loops.hpp"
 #include "drive/boundary.hpp"
 #include "grid/grid.hpp"
 #include "models/model.hpp"
@@ -81,6 +90,21 @@ struct RhsReport {
   std::vector<real> source_power;
 };
 
+/// A flux solver that needs to know its face (the linearized models' per-face upwind flux):
+/// called as solver(m, WL, WR, face) with face = 0 .. n_cells.
+template <class S, class M>
+concept FaceAwareSolver = requires(const S s, const M m, const typename M::State& w, int face) {
+  { s(m, w, w, face) } -> std::same_as<FaceFlux<M::n_vars>>;
+};
+
+/// A model whose gradient flux depends on the face (a background varying along x):
+/// m.face_gradient_flux(face, W_left_cell, W_right_cell, dx), used instead of gradient_flux.
+template <class M>
+concept HasFaceGradientFlux = requires(const M m, const typename M::State& s, real dx, int face) {
+  { m.face_gradient_flux(face, s, s, dx) } -> std::same_as<typename M::State>;
+  { m.gradient_terms_active() } -> std::same_as<bool>;
+};
+
 template <Model M>
 class FvOperator {
  public:
@@ -94,6 +118,33 @@ class FvOperator {
         D_(static_cast<std::size_t>(grid.n_cells + 1)) {
     TW_CHECK(left_ && right_, "both boundaries must be set");
     TW_CHECK(flux_supported<M>(scheme.flux), "flux not available for this model");
+    if constexpr (HasBlockKernel)
+      columns_.resize(static_cast<std::size_t>(BlockKernel::columns_size(grid.n_total())));
+  }
+
+  /// Use the model's block kernel where it applies (the default), or force the generic
+  /// passes (false).
+  void set_block_kernel(bool on) { use_block_kernel_ = on; }
+  /// True when evaluate() with model m converts to primitive variables with the model's
+  /// block kernel.
+  [[nodiscard]] bool block_primitives_active(const M& m) const {
+    if constexpr (HasBlockKernel) {
+      return use_block_kernel_ && BlockKernel::applies(m);
+    } else {
+      (void)m;
+      return false;
+    }
+  }
+  /// True when evaluate() with model m also reconstructs and computes the fluxes with the
+  /// model's block kernel.
+  [[nodiscard]] bool block_kernel_active(const M& m) const {
+    if constexpr (HasBlockKernel) {
+      return block_primitives_active(m) &&
+             BlockKernel::supports(m, scheme_.reconstruction, scheme_.limiter, scheme_.flux);
+    } else {
+      (void)m;
+      return false;
+    }
   }
 
   void add_source(std::shared_ptr<const SourceTerm<M>> s) { sources_.push_back(std::move(s)); }
@@ -145,11 +196,15 @@ class FvOperator {
     int bad = std::numeric_limits<int>::max();
     real smax = 0;
     std::vector<StepLimits> thread_limits;
-
     const bool coupled = grid_coupled(m);
+    const bool blocked = !coupled && block_primitives_active(m);
+    const bool fused = blocked && block_kernel_active(m);
+
 #pragma omp parallel if (run_parallel(n))
     {
-      if (!coupled) {
+      if (blocked) {
+        primitives_pass_blocked(m, U, bad);
+      } else if (!coupled) {
 #pragma omp for schedule(static) reduction(min : bad)
         for (int i = 0; i < n; ++i) {
           W_[i] = m.prim_from_cons(U[i]);
@@ -170,26 +225,43 @@ class FvOperator {
       {
         left_->fill(m, grid_, Side::left, t, W_);
         right_->fill(m, grid_, Side::right, t, W_);
+        if (blocked) ghosts_to_columns();
       }
-      reconstruct_pass(m);
-      switch (scheme_.flux) {
-        case FluxKind::rusanov: face_pass<FluxKind::rusanov>(m, dx, smax); break;
-        case FluxKind::hll: face_pass<FluxKind::hll>(m, dx, smax); break;
-        case FluxKind::hlld: face_pass<FluxKind::hlld>(m, dx, smax); break;
-        case FluxKind::upwind: face_pass<FluxKind::upwind>(m, dx, smax); break;
+      if (fused) {
+        fused_face_pass(m, dx, smax);
+      } else {
+        reconstruct_pass(m, -1, n + 1);
+        switch (scheme_.flux) {
+          case FluxKind::rusanov: face_pass<FluxKind::rusanov>(m, dx, smax); break;
+          case FluxKind::hll: face_pass<FluxKind::hll>(m, dx, smax); break;
+          case FluxKind::hlld: face_pass<FluxKind::hlld>(m, dx, smax); break;
+          case FluxKind::upwind: face_pass<FluxKind::upwind>(m, dx, smax); break;
+        }
       }
       const real inv_dx = 1 / dx;
+      if constexpr (HasSource<M>) {
 #pragma omp for schedule(static)
-      for (int i = 0; i < n; ++i) {
-        const auto& fl = F_[static_cast<std::size_t>(i)];
-        const auto& fr = F_[static_cast<std::size_t>(i + 1)];
-        State d;
-        for (int k = 0; k < N; ++k) d[k] = -(fr[k] - fl[k]) * inv_dx;
-        if constexpr (HasSource<M>) {
+        for (int i = 0; i < n; ++i) {
+          const auto& fl = F_[static_cast<std::size_t>(i)];
+          const auto& fr = F_[static_cast<std::size_t>(i + 1)];
+          State d;
+          for (int k = 0; k < N; ++k) d[k] = -(fr[k] - fl[k]) * inv_dx;
           const State s = m.source(W_[i], grid_.x_centre(i), t);
           for (int k = 0; k < N; ++k) d[k] += s[k];
+          dUdt[i] = d;
         }
-        dUdt[i] = d;
+      } else {
+        // Without a local source the difference runs over the flat storage: element j of
+        // face i+1 is element j + N of face i (same operations, and it vectorises).
+        const real* fl = F_[0].data();
+        real* d = dUdt[0].data();
+        const long len = static_cast<long>(n) * N;
+        const long n_chunks = (len + flat_chunk - 1) / flat_chunk;
+#pragma omp for schedule(static)
+        for (long c = 0; c < n_chunks; ++c) {
+          const long j0 = c * flat_chunk;
+          simd::flux_difference(std::min(flat_chunk, len - j0), N, inv_dx, fl + j0, d + j0);
+        }
       }
       if constexpr (HasDissipation<M>) {
         if (gradient_active(m)) {
@@ -216,6 +288,12 @@ class FvOperator {
     if (want_limits)
       for (const auto& s : sources_) s->step_limits(m, grid_, rep.limits);
     if constexpr (HasEnergyFlux<M>) {
+      if (fused) {
+        // The block kernel keeps no face values; the two end faces' are reconstructed here
+        // by the generic code (which the kernel reproduces bitwise).
+        reconstruct_pass(m, -1, 1);
+        reconstruct_pass(m, n - 1, n + 1);
+      }
       rep.energy_flux_left = m.energy_flux(F_.front(), face_state(Wp_[-1], Wm_[0]));
       rep.energy_flux_right = m.energy_flux(F_.back(), face_state(Wp_[n - 1], Wm_[n]));
     }
@@ -295,27 +373,27 @@ class FvOperator {
   static int omp_threads() { return omp_get_num_threads(); }
   static int omp_thread() { return omp_get_thread_num(); }
 
-  /// Face values Wm_[i] (at i-1/2) and Wp_[i] (at i+1/2) for cells -1 .. n.
-  void reconstruct_pass(const M& m) {
+  /// Face values Wm_[i] (at i-1/2) and Wp_[i] (at i+1/2) for cells lo .. hi-1 (all
+  /// that the faces need: -1 .. n).
+  void reconstruct_pass(const M& m, int lo, int hi) {
     switch (scheme_.reconstruction) {
-      case Reconstruction::first_order: recon_loop<0, Limiter::none>(m); break;
-      case Reconstruction::weno5: recon_loop<2, Limiter::none>(m); break;
+      case Reconstruction::first_order: recon_loop<0, Limiter::none>(m, lo, hi); break;
+      case Reconstruction::weno5: recon_loop<2, Limiter::none>(m, lo, hi); break;
       case Reconstruction::plm:
         switch (scheme_.limiter) {
-          case Limiter::minmod: recon_loop<1, Limiter::minmod>(m); break;
-          case Limiter::mc: recon_loop<1, Limiter::mc>(m); break;
-          case Limiter::van_leer: recon_loop<1, Limiter::van_leer>(m); break;
-          case Limiter::none: recon_loop<1, Limiter::none>(m); break;
+          case Limiter::minmod: recon_loop<1, Limiter::minmod>(m, lo, hi); break;
+          case Limiter::mc: recon_loop<1, Limiter::mc>(m, lo, hi); break;
+          case Limiter::van_leer: recon_loop<1, Limiter::van_leer>(m, lo, hi); break;
+          case Limiter::none: recon_loop<1, Limiter::none>(m, lo, hi); break;
         }
         break;
     }
   }
 
   template <int Order, Limiter L>
-  void recon_loop(const M& m) {
-    const int n = grid_.n_cells;
+  void recon_loop(const M& m, int lo_cell, int hi_cell) {
 #pragma omp for schedule(static)
-    for (int i = -1; i <= n; ++i) {
+    for (int i = lo_cell; i < hi_cell; ++i) {
       const State& c = W_[i];
       State lo, hi;
       if constexpr (Order == 0) {
@@ -363,8 +441,16 @@ class FvOperator {
       real mine = 0;
 #pragma omp for schedule(static)
       for (int f = 0; f <= n; ++f) {
-        auto ff = solver(m, Wp_[f - 1], Wm_[f]);
-        if constexpr (HasGradientFlux<M>) {
+        auto ff = [&] {
+          if constexpr (FaceAwareSolver<FluxT, M>) return solver(m, Wp_[f - 1], Wm_[f], f);
+          else return solver(m, Wp_[f - 1], Wm_[f]);
+        }();
+        if constexpr (HasFaceGradientFlux<M>) {
+          if (grad) {
+            const State g = m.face_gradient_flux(f, W_[f - 1], W_[f], dx);
+            for (int k = 0; k < N; ++k) ff.flux[k] += g[k];
+          }
+        } else if constexpr (HasGradientFlux<M>) {
           if (grad) {
             const State g = m.gradient_flux(W_[f - 1], W_[f], dx);
             for (int k = 0; k < N; ++k) ff.flux[k] += g[k];
@@ -382,18 +468,89 @@ class FvOperator {
     }
   }
 
+  /// The block kernel's copy of the primitive field, one array per variable.
+  auto columns() {
+    if constexpr (HasBlockKernel) {
+      return typename BlockKernel::Columns{columns_.data() + Grid::n_ghost, grid_.n_total()};
+    }
+  }
+
+  /// Copies the ghost cells just filled by the boundaries into the columns.
+  void ghosts_to_columns() {
+    if constexpr (HasBlockKernel) {
+      const auto cols = columns();
+      const int n = grid_.n_cells;
+      for (int g = 1; g <= Grid::n_ghost; ++g)
+        for (int c : {-g, n - 1 + g})
+          for (int k = 0; k < N; ++k) cols.data[k * cols.stride + c] = W_[c][k];
+    }
+  }
+
+  /// Pass 1 as the model's block kernel, over whole blocks of cells.
+  void primitives_pass_blocked(const M& m, const Field<State>& U, int& bad) {
+    if constexpr (HasBlockKernel) {
+      const int n = grid_.n_cells;
+      constexpr int block = BlockKernel::block_faces;
+      const int n_blocks = (n + block - 1) / block;
+#pragma omp for schedule(static) reduction(min : bad)
+      for (int b = 0; b < n_blocks; ++b) {
+        const int i0 = b * block;
+        const int k = BlockKernel::primitives(m, &U[0], &W_[0], columns(), i0, std::min(i0 + block, n));
+        if (k >= 0) bad = std::min(bad, k);
+      }
+    } else {
+      (void)m;
+      (void)U;
+      (void)bad;
+    }
+  }
+
+  /// Passes 3 and 4 as the model's block kernel, over whole blocks of faces, plus the
+  /// gradient flux as in face_pass. Needs the columns of pass 1 (block kernel) and pass 2.
+  void fused_face_pass(const M& m, real dx, real& smax) {
+    if constexpr (HasBlockKernel) {
+      constexpr int block = BlockKernel::block_faces;
+      const int n = grid_.n_cells;
+      const int n_blocks = (n + 1 + block - 1) / block;
+      const bool grad = gradient_active(m);
+#pragma omp for schedule(static) reduction(max : smax)
+      for (int b = 0; b < n_blocks; ++b) {
+        const int f0 = b * block, f1 = std::min(f0 + block, n + 1);
+        smax = std::max(smax, BlockKernel::faces(m, scheme_.reconstruction, scheme_.limiter, scheme_.flux,
+                                                columns(), f0, f1, F_.data()));
+        if constexpr (HasGradientFlux<M>) {
+          if (grad) {
+            for (int f = f0; f < f1; ++f) {
+              const State g = m.gradient_flux(W_[f - 1], W_[f], dx);
+              for (int k = 0; k < N; ++k) F_[static_cast<std::size_t>(f)][k] += g[k];
+            }
+          }
+        }
+      }
+    } else {
+      (void)m;
+      (void)dx;
+      (void)smax;
+    }
+  }
+
   static bool gradient_active(const M& m) {
-    if constexpr (HasGradientFlux<M>) return m.gradient_terms_active();
+    if constexpr (HasGradientFlux<M> || HasFaceGradientFlux<M>) return m.gradient_terms_active();
     (void)m;
     return false;
   }
 
+  using BlockKernel = block_kernel_t<M>;
+  static constexpr bool HasBlockKernel = !std::is_void_v<BlockKernel>;
+
   Grid grid_;
   SpatialScheme scheme_;
+  bool use_block_kernel_ = true;
   std::shared_ptr<const Boundary<M>> left_, right_;
   std::vector<std::shared_ptr<const SourceTerm<M>>> sources_;
   Field<State> W_, Wm_, Wp_;
   std::vector<State> F_;
+  std::vector<real> columns_;  ///< primitive field as one array per variable (block kernel)
   std::vector<Dissipation> D_;  ///< heating at each face (when active)
 };
 

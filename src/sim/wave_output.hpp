@@ -213,7 +213,8 @@ class WaveOutput {
   std::vector<std::string> finish(io::OutputFile& out, real t_end) {
     std::vector<std::string> notes;
     const std::string e = c_.units.unit("J m^-2"), p = c_.units.unit("W m^-2"), s = c_.units.unit("s");
-    for (std::size_t j = 0; j < drives_.size(); ++j) {
+    // A model without an energy density (a linearized one) has no drive power to report.
+    for (std::size_t j = 0; HasEnergyDensity<M> && j < drives_.size(); ++j) {
       const DriveInfo& d = drives_[j];
       const auto win = d.signal.averaging_window(t_end);
       const real pm = records_[j].mean_power(win[0], win[1]);

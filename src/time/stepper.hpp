@@ -25,6 +25,7 @@
 ///   whose primitives are per cell, the step is therefore chosen from a cheaper survey of
 ///   U^n (the signal speeds of the cell states, not of reconstructed face states;
 ///   FvOperator::survey); otherwise the first evaluation is a full one.
+#include <algorithm>
 #include <cmath>
 #include <sstream>
 #include <string>
@@ -32,6 +33,7 @@
 
 #include "core/error.hpp"
 #include "core/parallel.hpp"
+#include "core/simd_loops.hpp"
 #include "models/model.hpp"
 #include "numerics/fv_operator.hpp"
 #include "time/integrators.hpp"
@@ -132,14 +134,18 @@ class Stepper {
         dissipated_ += wdt * rep.dissipation;
       }
       const Field<State>& base = rk_base();
-      // The stage update on the flat storage (n_cells * N contiguous reals) vectorises.
+      // The stage update on the flat storage (n_cells * N contiguous reals), in chunks that
+      // the vectorised loop (core/simd_loops.hpp) takes one at a time.
       real* u = U[0].data();
       const real* u0 = base[0].data();
       const real* l = L_[0].data();
       const long len = static_cast<long>(n) * N;
-      const real a = st.a, b = st.b;
+      const long n_chunks = (len + flat_chunk - 1) / flat_chunk;
 #pragma omp parallel for schedule(static) if (run_parallel(n))
-      for (long j = 0; j < len; ++j) u[j] = a * u0[j] + b * (u[j] + dt * l[j]);
+      for (long c = 0; c < n_chunks; ++c) {
+        const long j0 = c * flat_chunk;
+        simd::stage_update(std::min(flat_chunk, len - j0), st.a, st.b, dt, u0 + j0, l + j0, u + j0);
+      }
     }
     if (split) split_half_step(m, U, t + 0.5 * dt, 0.5 * dt);
     if constexpr (HasStiffSource<M>) m.stiff_source_step(g, U, t + 0.5 * dt, 0.5 * dt);

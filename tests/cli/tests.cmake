@@ -15,3 +15,8 @@ add_test(NAME "readme: key reference is up to date"
          COMMAND ${CMAKE_CURRENT_LIST_DIR}/check_keys_reference.sh
                  $<TARGET_FILE:tubewave> ${PROJECT_SOURCE_DIR}/README.md)
 set_tests_properties("readme: key reference is up to date" PROPERTIES LABELS unit)
+
+# `tubewave modes --json` parses and carries the table's numbers (tests/cli/check_modes_json.py).
+add_test(NAME "modes: JSON output parses and matches the Hall-MHD identities"
+         COMMAND /usr/bin/python3 ${CMAKE_CURRENT_LIST_DIR}/check_modes_json.py $<TARGET_FILE:tubewave> ${PROJECT_SOURCE_DIR})
+set_tests_properties("modes: JSON output parses and matches the Hall-MHD identities" PROPERTIES LABELS unit)
