@@ -2,8 +2,6 @@
 #include <omp.h>
 #include <unistd.h>
 
-#include <atomic>
-#include <csignal>
 #include <cstdio>
 #include <iostream>
 #include <optional>
@@ -11,6 +9,7 @@
 
 #include "cli/args.hpp"
 #include "cli/commands.hpp"
+#include "cli/stop_signals.hpp"
 #include "core/error.hpp"
 #include "sim/run.hpp"
 
@@ -38,31 +37,6 @@ std::string human_seconds(double s) {
   else if (s < 7200) o << s / 60 << " min";
   else o << s / 3600 << " h";
   return o.str();
-}
-
-// Stop requests. The handlers only store to lock-free atomics (async-signal-safe); the time
-// loop reads `stop` between steps, writes a checkpoint and ends with exit code 3.
-std::atomic<bool> stop_requested{false};
-std::atomic<int> stop_signal{0};
-static_assert(std::atomic<bool>::is_always_lock_free && std::atomic<int>::is_always_lock_free);
-
-extern "C" void on_stop_signal(int sig) {
-  stop_signal.store(sig);
-  stop_requested.store(true);
-}
-
-/// SIGTERM and SIGUSR1 (what batch schedulers send before a time limit) and SIGINT (Ctrl-C)
-/// ask the run to stop after the current step. SIGINT is reset to its default action once
-/// caught, so a second Ctrl-C ends the process at once (the output is then left under its
-/// temporary name, never looking complete).
-void install_stop_handlers() {
-  for (int sig : {SIGTERM, SIGUSR1, SIGINT}) {
-    struct sigaction sa {};
-    sa.sa_handler = on_stop_signal;
-    sigemptyset(&sa.sa_mask);
-    sa.sa_flags = SA_RESTART | (sig == SIGINT ? SA_RESETHAND : 0);
-    sigaction(sig, &sa, nullptr);
-  }
 }
 
 void apply_threads(const ArgParser& a) {
@@ -101,9 +75,9 @@ int cmd_run(std::span<const std::string> args) {
 
   RunOptions opt;
   if (a.has("output")) opt.output_override = a.value("output");
-  install_stop_handlers();
-  opt.stop = &stop_requested;
-  opt.stop_signal = &stop_signal;
+  const StopOnSignals stop_guard;
+  opt.stop = &StopOnSignals::requested();
+  opt.stop_signal = &StopOnSignals::signal_number();
   const bool tty = ::isatty(STDERR_FILENO) != 0;
   if (!a.has("quiet")) {
     opt.progress_interval_s = tty ? 0.25 : 10.0;

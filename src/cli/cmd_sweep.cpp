@@ -3,9 +3,7 @@
 #include <omp.h>
 
 #include <algorithm>
-#include <atomic>
 #include <chrono>
-#include <csignal>
 #include <cstdio>
 #include <filesystem>
 #include <fstream>
@@ -15,6 +13,7 @@
 
 #include "cli/args.hpp"
 #include "cli/commands.hpp"
+#include "cli/stop_signals.hpp"
 #include "core/error.hpp"
 #include "sweep/case_run.hpp"
 #include "sweep/job_script.hpp"
@@ -29,32 +28,6 @@ namespace {
 
 namespace fs = std::filesystem;
 using namespace tw::sweep;
-
-std::atomic<bool> g_stop{false};
-
-extern "C" void on_stop_signal(int) { g_stop.store(true); }
-
-/// SIGINT and SIGTERM stop the sweep: running cases end as "interrupted" (not recorded,
-/// they run again next time) and no new case starts. Restored on destruction.
-class StopOnSignal {
- public:
-  StopOnSignal() {
-    struct sigaction sa {};
-    sa.sa_handler = on_stop_signal;
-    sigemptyset(&sa.sa_mask);
-    sigaction(SIGINT, &sa, &old_int_);
-    sigaction(SIGTERM, &sa, &old_term_);
-  }
-  StopOnSignal(const StopOnSignal&) = delete;
-  StopOnSignal& operator=(const StopOnSignal&) = delete;
-  ~StopOnSignal() {
-    sigaction(SIGINT, &old_int_, nullptr);
-    sigaction(SIGTERM, &old_term_, nullptr);
-  }
-
- private:
-  struct sigaction old_int_ {}, old_term_ {};
-};
 
 int positive_option(const ArgParser& a, const char* name) {
   if (!a.has(name)) return 0;
@@ -213,10 +186,10 @@ int run_single_case(const Sweep& s, const ArgParser& a, bool retry) {
     return exit_code::run_failed;
   }
   make_dirs(s);
-  StopOnSignal guard;
+  const StopOnSignals guard;
   CaseOptions co;
   co.threads = std::max(1, positive_option(a, "threads") > 0 ? positive_option(a, "threads") : omp_get_max_threads());
-  co.stop = &g_stop;
+  co.stop = &StopOnSignals::requested();
   co.measure_only = plan.state == CasePlan::State::remeasure;
   std::cerr << "tubewave: sweep: running " << c.id << " (" << c.describe(s.parameters) << ") with " << co.threads
             << " thread(s)\n";
@@ -243,7 +216,7 @@ int run_local_sweep(const Sweep& s, const ArgParser& a, bool retry) {
   LocalOptions lo;
   lo.jobs = positive_option(a, "jobs");
   lo.threads = positive_option(a, "threads");
-  lo.stop = &g_stop;
+  lo.stop = &StopOnSignals::requested();
   const LocalShape shape = local_shape(lo, jobs.size());
   std::cerr << plan_text(s, plans, jobs, retry);
   if (!jobs.empty())
@@ -253,7 +226,7 @@ int run_local_sweep(const Sweep& s, const ArgParser& a, bool retry) {
   make_dirs(s);
   std::vector<CaseRecord> session;
   {
-    StopOnSignal guard;
+    const StopOnSignals guard;
     ProgressReporter progress(s, count_state(plans, CasePlan::State::done), jobs, std::cerr);
     session = run_local(s, plans, jobs, lo, progress);
   }
@@ -262,7 +235,7 @@ int run_local_sweep(const Sweep& s, const ArgParser& a, bool retry) {
   info.session_wall_seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   write_summary(s, all, info);
   std::cout << result_line(s, all);
-  return exit_code_of(all, g_stop.load());
+  return exit_code_of(all, StopOnSignals::requested().load());
 }
 
 int run_mpi_sweep(const std::string& path, const LoadOptions& lopt, const ArgParser& a, bool retry) {
@@ -301,8 +274,8 @@ int run_mpi_sweep(const std::string& path, const LoadOptions& lopt, const ArgPar
   }
   std::vector<CaseRecord> session_records;
   {
-    StopOnSignal guard;
-    session_records = mpi::run_distributed(session, *s, plans, jobs, threads, &g_stop, progress ? &*progress : nullptr);
+    const StopOnSignals guard;
+    session_records = mpi::run_distributed(session, *s, plans, jobs, threads, &StopOnSignals::requested(), progress ? &*progress : nullptr);
   }
   if (session.rank() != 0) return exit_code::ok;
   const auto all = gather_records(*s, plans, session_records);
@@ -310,7 +283,7 @@ int run_mpi_sweep(const std::string& path, const LoadOptions& lopt, const ArgPar
   info.session_wall_seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   write_summary(*s, all, info);
   std::cout << result_line(*s, all);
-  return exit_code_of(all, g_stop.load());
+  return exit_code_of(all, StopOnSignals::requested().load());
 }
 
 }  // namespace

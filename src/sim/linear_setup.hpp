@@ -22,6 +22,7 @@
 #include "models/linearized.hpp"
 #include "models/mhd_linear.hpp"
 #include "models/twofluid_linear.hpp"
+#include "sim/checkpoint.hpp"
 #include "sim/model_setup.hpp"
 #include "sim/plasma.hpp"
 #include "sim/run.hpp"
@@ -56,9 +57,10 @@ DispersionInput dispersion_input(const io::RunFile& rf, const CaseSetup& c, real
 /// WaveMode::vector), with units.
 std::vector<VariableInfo> linear_variables(const std::string& equations);
 
-/// Run and check linearized cases (sim/run_linear.cpp); called by run_case / check_case
-/// when model.form is linearized.
-RunSummary run_linearized(const io::RunFile& rf, CaseSetup c, const RunOptions& options);
+/// Run and check linearized cases (sim/run_linear.cpp); called by run_case, restart_case
+/// and check_case when model.form is linearized. `restart` continues from a checkpoint.
+RunSummary run_linearized(const io::RunFile& rf, CaseSetup c, const RunOptions& options,
+                          const RestartPlan* restart = nullptr);
 CheckReport check_linearized(const io::RunFile& rf, CaseSetup c);
 
 }  // namespace tw

@@ -101,7 +101,8 @@ RunSummary restart_case(const RestartArgs& args, const RunOptions& options) {
   req.output_override = args.output;
   const RestartPlan plan = plan_restart(req, run_schema());
   return dispatch(plan.run_file, read_case(plan.run_file, plan.output_file),
-                  [&](auto& runner) { return runner.run(options, &plan); });
+                  [&](auto& runner) { return runner.run(options, &plan); },
+                  [&](CaseSetup c) { return run_linearized(plan.run_file, std::move(c), options, &plan); });
 }
 
 CheckReport check_case(const io::RunFile& rf, const std::string& output_override) {

@@ -27,8 +27,8 @@ auto dispatch_linearized(const io::RunFile& rf, CaseSetup c, F&& f) {
 
 }  // namespace
 
-RunSummary run_linearized(const io::RunFile& rf, CaseSetup c, const RunOptions& options) {
-  return dispatch_linearized(rf, std::move(c), [&](auto& runner) { return runner.run(options); });
+RunSummary run_linearized(const io::RunFile& rf, CaseSetup c, const RunOptions& options, const RestartPlan* restart) {
+  return dispatch_linearized(rf, std::move(c), [&](auto& runner) { return runner.run(options, restart); });
 }
 
 CheckReport check_linearized(const io::RunFile& rf, CaseSetup c) {

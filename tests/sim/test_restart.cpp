@@ -43,6 +43,8 @@ const std::vector<std::string> hall_short{"time.end=0.6", "model.hall_stepping=i
 /// (the model's whole-tube diagnostics go to /history).
 const std::vector<std::string> two_fluid_whistler_short{"time.end=1e-7"};
 const std::vector<std::string> two_fluid_tube_short{"grid.cells=200", "time.end=1"};
+/// Linearized Hall MHD with electron inertia and k_perp (complex amplitudes), driven, open end.
+const std::vector<std::string> kinetic_alfven_short{"time.end=1.5e-6"};
 
 tw::RunSummary run_to(const std::string& config, const std::vector<std::string>& overrides, const fs::path& out,
                       long stop_at_step = -1) {
@@ -134,7 +136,8 @@ TEST_CASE("restart: a run stopped twice and continued is bitwise the uninterrupt
       std::make_tuple(std::string("configs/brio_wu_shock_tube.yaml"), brio_wu_short, 37L, 90L),
       std::make_tuple(std::string("configs/hall_whistler.yaml"), hall_short, 300L, 700L),
       std::make_tuple(std::string("configs/two_fluid_whistler.yaml"), two_fluid_whistler_short, 300L, 700L),
-      std::make_tuple(std::string("configs/two_fluid_shock_tube.yaml"), two_fluid_tube_short, 60L, 150L));
+      std::make_tuple(std::string("configs/two_fluid_shock_tube.yaml"), two_fluid_tube_short, 60L, 150L),
+      std::make_tuple(std::string("configs/kinetic_alfven_column.yaml"), kinetic_alfven_short, 600L, 1400L));
   INFO(config);
   const ScratchDir dir("restart-chain");
   const fs::path ref = dir / "ref.h5", out = dir / "run.h5", ckpt = dir / "run.checkpoint.h5";
@@ -336,7 +339,9 @@ TEST_CASE("restart: kill -9 at any moment leaves no complete-looking output and 
   // continuing from it gives the uninterrupted result bit for bit.
   const ScratchDir dir("restart-kill");
   const std::string cfg = source_path("configs/demo_column.yaml").string();
-  const std::vector<std::string> sets{"grid.cells=400", "time.end=16e-6", "checkpoint.wall_interval=0.03"};
+  // About a second of running (not much less: process start-up and the first checkpoint
+  // must be a small part of it, or every kill lands before the first checkpoint).
+  const std::vector<std::string> sets{"grid.cells=3200", "time.end=24e-6", "checkpoint.wall_interval=0.03"};
   std::string ref = "run " + quoted(cfg) + " -o ref.h5 --quiet --threads 1";
   for (const auto& s : sets) ref += " --set " + s;
   const auto t0 = std::chrono::steady_clock::now();
