@@ -7,6 +7,7 @@
 #include <utility>
 
 #include "core/error.hpp"
+#include "io/text_util.hpp"
 
 namespace tw::cli {
 
@@ -183,7 +184,7 @@ bool ArgParser::parse(std::span<const std::string> args) {
           if (c.kind != Kind::positional) names.push_back(c.name);
         }
         names.push_back("help");
-        const std::string near = closest_match(name, names);
+        const std::string near = io::detail::nearest_name(name, names);
         fail("unknown option '" + shown + "'" +
              (near.empty() ? std::string() : " (did you mean '--" + near + "'?)"));
       }
@@ -311,35 +312,6 @@ std::string ArgParser::help_text() const {
   out += "\noptions:\n";
   emit(opt_lines);
   return out;
-}
-
-std::size_t edit_distance(std::string_view a, std::string_view b) {
-  std::vector<std::size_t> row(b.size() + 1);
-  for (std::size_t j = 0; j <= b.size(); ++j) row[j] = j;
-  for (std::size_t i = 1; i <= a.size(); ++i) {
-    std::size_t diag = row[0];
-    row[0] = i;
-    for (std::size_t j = 1; j <= b.size(); ++j) {
-      const std::size_t up = row[j];
-      row[j] = std::min({row[j] + 1, row[j - 1] + 1, diag + (a[i - 1] == b[j - 1] ? 0u : 1u)});
-      diag = up;
-    }
-  }
-  return row[b.size()];
-}
-
-std::string closest_match(std::string_view word, std::span<const std::string> candidates) {
-  const std::size_t limit = std::max<std::size_t>(2, word.size() / 3);
-  std::string best;
-  std::size_t best_d = limit + 1;
-  for (const auto& c : candidates) {
-    const std::size_t d = edit_distance(word, c);
-    if (d < best_d) {
-      best_d = d;
-      best = c;
-    }
-  }
-  return best;
 }
 
 bool parse_real(std::string_view text, double& out) {

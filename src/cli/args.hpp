@@ -86,14 +86,6 @@ class ArgParser {
   std::map<std::string, std::vector<std::string>> given_;  // name -> values ("" for flags)
 };
 
-/// Levenshtein edit distance (insertions, deletions, substitutions all cost 1).
-[[nodiscard]] std::size_t edit_distance(std::string_view a, std::string_view b);
-
-/// The candidate closest to `word`, or "" if none is within a plausible typo distance
-/// (at most 2 edits, or a third of the word's length for longer words).
-[[nodiscard]] std::string closest_match(std::string_view word,
-                                        std::span<const std::string> candidates);
-
 /// Parses a whole string as a finite double (leading '+' allowed); false otherwise.
 [[nodiscard]] bool parse_real(std::string_view text, double& out);
 

@@ -84,10 +84,11 @@ int cmd_run(std::span<const std::string> args) {
     opt.progress = [tty](const Progress& p) {
       const double frac = p.t_end > 0 ? p.t / p.t_end : 1;
       const double eta = frac > 0 ? p.wall_seconds * (1 - frac) / frac : 0;
+      const char* unit = p.normalized ? "" : " s";
       char line[256];
       std::snprintf(line, sizeof line,
-                    "t = %.4e s (%5.1f%%)  step %ld  dt = %.3e s [%s]  %.3g cell-updates/s  ETA %s",
-                    p.t, 100 * frac, p.step, p.dt, p.limited_by.c_str(), p.cell_updates_per_second,
+                    "t = %.4e%s (%5.1f%%)  step %ld  dt = %.3e%s [%s]  %.3g cell-updates/s  ETA %s",
+                    p.t, unit, 100 * frac, p.step, p.dt, unit, p.limited_by.c_str(), p.cell_updates_per_second,
                     p.final ? "-" : human_seconds(eta).c_str());
       if (tty) {
         std::cerr << "\r\033[K" << line << (p.final ? "\n" : "") << std::flush;
@@ -113,7 +114,7 @@ int cmd_run(std::span<const std::string> args) {
   }
   std::ostringstream msg;
   msg.precision(4);
-  msg << "tubewave: " << s.outcome << ": " << s.steps << " steps to t = " << s.t << " s in "
+  msg << "tubewave: " << s.outcome << ": " << s.steps << " steps to t = " << s.t << (s.normalized ? "" : " s") << " in "
       << human_seconds(s.wall_seconds) << " (" << s.cell_updates_per_second << " cell-updates/s)\n"
       << "tubewave: wrote " << s.output_file << " (" << s.snapshots << " snapshots, "
       << s.probe_samples << " probe samples)\n";

@@ -12,6 +12,7 @@
 #include "cli/args.hpp"
 #include "cli/commands.hpp"
 #include "core/error.hpp"
+#include "io/text_util.hpp"
 #include "tubewave/version.hpp"
 
 namespace {
@@ -102,7 +103,7 @@ int dispatch(const std::vector<std::string>& words) {
   }
   std::vector<std::string> names;
   for (const auto& c : commands) names.emplace_back(c.name);
-  const std::string near = tw::cli::closest_match(name, names);
+  const std::string near = tw::io::detail::nearest_name(name, names);
   throw tw::InputError("unknown command '" + name + "'" +
                        (near.empty() ? std::string() : " (did you mean '" + near + "'?)") +
                        "; see 'tubewave --help'");

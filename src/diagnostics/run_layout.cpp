@@ -28,9 +28,8 @@ bool declared(const std::string& path) {
 /// The value of a key when this build declares it and the run file has it.
 bool present(const io::RunFile& rf, const std::string& key) { return declared(key) && rf.has(key); }
 
-}  // namespace
-
-RunLayout read_run_layout(const io::H5Reader& h, std::vector<std::string>& notes) {
+/// What the resolved run file alone says.
+RunLayout read_run_file_layout(const io::H5Reader& h, std::vector<std::string>& notes) {
   RunLayout layout;
   const std::string where = "/provenance/resolved_run_file";
   if (!h.exists(where)) {
@@ -67,6 +66,15 @@ RunLayout read_run_layout(const io::H5Reader& h, std::vector<std::string>& notes
     notes.push_back(std::string("the run's resolved run file does not read with this tubewave (") + e.what() +
                     "): probe positions and drive frequency are unknown");
   }
+  return layout;
+}
+
+}  // namespace
+
+RunLayout read_run_layout(const io::H5Reader& h, std::vector<std::string>& notes) {
+  RunLayout layout = read_run_file_layout(h, notes);
+  // Files written since /grid/probe_x exists hold the positions themselves.
+  if (h.exists("/grid/probe_x")) layout.probe_x = h.read_real("/grid/probe_x");
   return layout;
 }
 

@@ -366,6 +366,8 @@ struct OutputFile::Impl {
   std::map<std::string, std::size_t> resume_rows;  ///< append mode: rows each series keeps
   std::set<std::string> scalars_written;           ///< write_scalars groups of this run segment
   std::vector<std::shared_ptr<SeriesState>> series;
+  std::string length_unit = "m";  ///< of /grid and probe positions (set_axis_units)
+  std::string time_unit = "s";    ///< of every series' time column
 
   Impl(std::string final, std::string temp)
       : final_path(std::move(final)), temp_path(std::move(temp)) {}
@@ -615,7 +617,13 @@ void OutputFile::write_scalars(const std::string& path, const std::vector<Parame
   for (const auto& [name, value] : attributes) write_string_attr(g.get(), name.c_str(), value, file, object);
 }
 
-void OutputFile::write_grid(std::span<const real> x_centres, std::span<const real> x_faces) {
+void OutputFile::set_axis_units(const std::string& length, const std::string& time) {
+  impl_->length_unit = length;
+  impl_->time_unit = time;
+}
+
+void OutputFile::write_grid(std::span<const real> x_centres, std::span<const real> x_faces,
+                            std::span<const real> probe_positions) {
   impl_->require_open("write_grid");
   impl_->require_new("write_grid");
   TW_CHECK(x_faces.size() == x_centres.size() + 1, "grid has " + std::to_string(x_centres.size()) +
@@ -625,9 +633,12 @@ void OutputFile::write_grid(std::span<const real> x_centres, std::span<const rea
   const hid_t root = impl_->file.get();
   TW_CHECK(!link_exists(root, "grid"), "grid written twice to " + file);
   Handle g = create_group(root, "grid", file, "/grid");
-  write_real_vector(g.get(), "x", x_centres, "m", "cell centre positions", file, "/grid/x");
-  write_real_vector(g.get(), "x_faces", x_faces, "m", "cell face positions (n_cells + 1)", file,
-                    "/grid/x_faces");
+  const std::string& m = impl_->length_unit;
+  write_real_vector(g.get(), "x", x_centres, m, "cell centre positions", file, "/grid/x");
+  write_real_vector(g.get(), "x_faces", x_faces, m, "cell face positions (n_cells + 1)", file, "/grid/x_faces");
+  if (!probe_positions.empty())
+    write_real_vector(g.get(), "probe_x", probe_positions, m, "probe positions (the columns of /probes)", file,
+                      "/grid/probe_x");
 }
 
 Series OutputFile::create_series(const std::string& group, const std::vector<ColumnInfo>& columns,
@@ -701,7 +712,7 @@ Series OutputFile::create_series(const std::string& group, const std::vector<Col
   const hsize_t axis_chunk =
       std::max<hsize_t>(static_cast<hsize_t>(rows_per_chunk), min_axis_chunk);
   state->time =
-      make("time", 1, H5T_IEEE_F64LE, axis_chunk, false, "s", "simulation time of each row");
+      make("time", 1, H5T_IEEE_F64LE, axis_chunk, false, impl_->time_unit, "simulation time of each row");
   state->step =
       make("step", 1, H5T_STD_I64LE, axis_chunk, false, "1", "time step index of each row");
   for (const ColumnInfo& c : columns) {

@@ -136,7 +136,12 @@ class OutputFile {
   /// InternalError.
   void write_provenance(const Provenance& p);
   void write_parameters(const std::vector<ParameterValue>& params);
-  void write_grid(std::span<const real> x_centres, std::span<const real> x_faces);
+  /// Units of positions (/grid, probe positions) and of the series' time columns: "m" and
+  /// "s" unless set (normalized runs set "1"). Call before the writers.
+  void set_axis_units(const std::string& length, const std::string& time);
+  /// /grid/x, /grid/x_faces and, when there are probes, /grid/probe_x.
+  void write_grid(std::span<const real> x_centres, std::span<const real> x_faces,
+                  std::span<const real> probe_positions = {});
   /// Scalar float64 datasets (with units and description) in the group at `path`
   /// ("antennas/antenna1"; the group and its parents are created as needed), and string
   /// attributes on that group. Used for per-antenna and per-region summaries.

@@ -261,8 +261,9 @@ struct RawEntry {
 /// reported 1-based), or, for overrides and defaults, from one fixed SourcePos.
 class RawBuilder {
  public:
-  RawBuilder(std::string file, std::optional<SourcePos> fixed)
-      : file_(std::move(file)), fixed_(std::move(fixed)) {}
+  /// `text`, when given, is the document the nodes came from (for the quote check).
+  RawBuilder(std::string file, std::optional<SourcePos> fixed, const std::string* text = nullptr)
+      : file_(std::move(file)), fixed_(std::move(fixed)), text_(text) {}
 
   Raw build(const YAML::Node& n, const SourcePos& fallback, const std::string& path,
             int depth = 0) const {
@@ -284,6 +285,7 @@ class RawBuilder {
         r.kind = Raw::Kind::scalar;
         r.text = n.Scalar();
         r.plain = n.Tag() == "?";
+        if (!r.plain) require_closed_quote(n, r.pos, path);
         break;
       case YAML::NodeType::Sequence: {
         r.kind = Raw::Kind::seq;
@@ -309,6 +311,31 @@ class RawBuilder {
     return r;
   }
 
+  /// yaml-cpp 0.7 ends a quoted scalar that is never closed at the end of the text without
+  /// complaint, so a stray quote would swallow the rest of the file into one value. Find the
+  /// closing quote in the source ('\\' escapes in "...", '' in '...').
+  void require_closed_quote(const YAML::Node& n, const SourcePos& pos, const std::string& path) const {
+    if (text_ == nullptr || fixed_) return;
+    const YAML::Mark m = n.Mark();
+    if (m.is_null() || m.pos < 0 || static_cast<std::size_t>(m.pos) >= text_->size()) return;
+    const std::string& t = *text_;
+    const char q = t[static_cast<std::size_t>(m.pos)];
+    if (q != '"' && q != '\'') return;
+    for (std::size_t i = static_cast<std::size_t>(m.pos) + 1; i < t.size(); ++i) {
+      if (q == '"' && t[i] == '\\') {
+        ++i;
+      } else if (t[i] == q) {
+        if (q == '\'' && i + 1 < t.size() && t[i + 1] == '\'') {
+          ++i;
+        } else {
+          return;
+        }
+      }
+    }
+    throw ConfigError(pos, path, std::string("the quoted value starting here has no closing ") + q +
+                                     " before the end of the file");
+  }
+
   [[nodiscard]] SourcePos pos_of(const YAML::Node& n, const SourcePos& fallback) const {
     if (fixed_) return *fixed_;
     const YAML::Mark m = n.Mark();
@@ -319,6 +346,7 @@ class RawBuilder {
  private:
   std::string file_;
   std::optional<SourcePos> fixed_;
+  const std::string* text_ = nullptr;
 };
 
 SourcePos mark_pos(const std::string& file, const YAML::Mark& m) {
@@ -923,7 +951,7 @@ RunFile RunFile::parse(const std::string& text, const std::string& source_name,
                       std::string("the top level must be a map of keys (got ") +
                           (docs[0].IsSequence() ? "a list" : "a single value") + ")");
   }
-  Raw doc = RawBuilder(source_name, std::nullopt).build(docs[0], start, "");
+  Raw doc = RawBuilder(source_name, std::nullopt, &text).build(docs[0], start, "");
   for (const auto& o : overrides) apply_override(root, source_name, o, doc);
   impl->root = Validator(root).section(root, &doc, "", start, true);
   return RunFile(std::move(impl));

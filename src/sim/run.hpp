@@ -19,6 +19,7 @@ io::RunFile load_run_file(const std::string& path, const std::vector<std::string
 /// Progress of a running case, reported now and then.
 struct Progress {
   double t = 0, t_end = 0;      ///< simulated time and end [s]
+  bool normalized = false;      ///< t, t_end and dt are in normalized units
   long step = 0;
   double dt = 0;                ///< last step [s]
   std::string limited_by;       ///< what set the last step
@@ -41,6 +42,7 @@ struct RunSummary {
   std::string output_file;
   long steps = 0;
   double t = 0;                  ///< simulated time reached [s]
+  bool normalized = false;       ///< t is in normalized units
   double wall_seconds = 0;
   double cell_updates_per_second = 0;
   long snapshots = 0, probe_samples = 0;

@@ -61,6 +61,7 @@ class CaseRunner {
     FvOperator<M> op(g, scheme_, drives.left, drives.right);
     for (auto& s : drives.sources) op.add_source(s);
     stepper_.emplace(std::move(op), c_.time);
+    stepper_->set_normalized_units(c_.units.normalized);
     waves_.emplace(rf, c_, std::move(drives.drives), std::move(drives.layer_sources));
     // Conservative variables (over the whole grid, with the ends, for models that need it).
     stepper_->op().conservatives(model_, 0, W, U_);
@@ -129,6 +130,7 @@ class CaseRunner {
     if (restart) check_checkpoint_case(restart->data, restart->checkpoint_path, model_label(), N, g);
     io::OutputFile out = restart ? io::OutputFile(c_.output.file, resume_point(restart->data))
                                  : io::OutputFile(c_.output.file);
+    out.set_axis_units(c_.units.unit("m"), c_.units.unit("s"));
     if (!out.appending()) write_header(out);
     const auto outs = M::output_info();
     const auto cons = M::conserved_info();
@@ -154,6 +156,7 @@ class CaseRunner {
     if (!restart) waves_->after_step(0, *stepper_);
     RunSummary sum;
     sum.output_file = c_.output.file;
+    sum.normalized = c_.units.normalized;
     real t = 0, t_snap_last = -1;
     long step = 0;
     // What checkpoints save and a restart puts back, by name (sim/checkpoint.hpp).
@@ -215,6 +218,7 @@ class CaseRunner {
     };
     Progress prog;
     prog.t_end = c_.t_end;
+    prog.normalized = c_.units.normalized;
     auto report = [&](bool final) {
       if (!opt.progress) return;
       prog.t = t;
@@ -361,7 +365,7 @@ class CaseRunner {
     }
     out.write_parameters(params);
     const auto xc = c_.grid.centres(), xf = c_.grid.faces();
-    out.write_grid(xc, xf);
+    out.write_grid(xc, xf, c_.output.probes);
   }
 
   void append_snapshot(io::Series& s, real t, long step) {

@@ -177,6 +177,8 @@ class Stepper {
   /// the start (per unit cross-section).
   [[nodiscard]] const std::array<State, 2>& boundary_flux_integrals() const { return boundary_flux_; }
   void set_boundary_flux_integrals(const std::array<State, 2>& b) { boundary_flux_ = b; }
+  /// Error messages of normalized runs give numbers without SI units.
+  void set_normalized_units(bool normalized) { normalized_units_ = normalized; }
 
   /// Energy per unit area that entered through the left (0) and right (1) ends since the
   /// start [J/m^2] (positive inward; models with energy_flux), with the stage weights.
@@ -284,15 +286,17 @@ class Stepper {
     m.to_output(W, out.data());
     std::ostringstream msg;
     msg.precision(6);
-    msg << "non-physical state in cell " << cell << " (x = " << g.x_centre(cell)
-        << " m) at t = " << t_bad << " s";
+    const bool si = !normalized_units_;
+    auto with_unit = [si](const std::string& u) { return si && u != "1" ? " " + u : std::string(); };
+    msg << "non-physical state in cell " << cell << " (x = " << g.x_centre(cell) << with_unit("m")
+        << ") at t = " << t_bad << with_unit("s");
     if (stage < stages_.size()) msg << " (Runge-Kutta stage " << stage + 1 << ")";
-    msg << ":";
+    msg << (si ? ":" : " (normalized units):");
     for (std::size_t k = 0; k < info.size(); ++k)
-      msg << (k ? ", " : " ") << info[k].name << " = " << out[k] << " " << info[k].units;
+      msg << (k ? ", " : " ") << info[k].name << " = " << out[k] << with_unit(info[k].units);
     if (have_good_) {
       copy_interior(U0_, U);
-      msg << ". The last good state (t = " << t_good_ << " s) was kept.";
+      msg << ". The last good state (t = " << t_good_ << with_unit("s") << ") was kept.";
     } else {
       msg << ". The initial state itself is not admissible.";
     }
@@ -311,6 +315,7 @@ class Stepper {
   bool split_ = false;   ///< this step is split (stiff source or active split step)
   real t_good_ = 0;
   bool have_good_ = false;
+  bool normalized_units_ = false;
   std::array<State, 2> boundary_flux_{};
   std::array<real, 2> energy_in_{};
   std::vector<real> source_work_;

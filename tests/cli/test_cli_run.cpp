@@ -98,6 +98,27 @@ TEST_CASE("cli: a small run completes, exits 0 and leaves one complete file and 
   CHECK(h.attr_int("/", "complete") == 1);
   CHECK(h.attr_string("/status", "outcome") == "completed");
   CHECK(h.attr_real("/status", "simulated_time") == Approx(0.02).epsilon(1e-12));
+  // A normalized run: positions and times are numbers without SI units; no probes, no list.
+  CHECK(h.attr_string("/grid/x", "units") == "1");
+  CHECK(h.attr_string("/snapshots/time", "units") == "1");
+  CHECK(h.attr_string("/history/time", "units") == "1");
+  CHECK_FALSE(h.exists("/grid/probe_x"));
+}
+
+TEST_CASE("cli: an SI run with probes stores their positions and SI axis units", "[unit]") {
+  const ScratchDir dir("cli-run-probes");
+  const auto r = run_tubewave("run " + quoted(source_path("configs/demo_column.yaml").string()) +
+                                  " -o demo.h5 --quiet --threads 1 --set grid.cells=100 --set time.end=1e-6"
+                                  " --set output.probes=[3,7.5,30]",
+                              dir.path());
+  INFO(r.output);
+  REQUIRE(r.exit_code == 0);
+  const tw::io::H5Reader h((dir / "demo.h5").string());
+  CHECK(h.read_real("/grid/probe_x") == std::vector<double>{3.0, 7.5, 30.0});
+  CHECK(h.attr_string("/grid/probe_x", "units") == "m");
+  CHECK(h.attr_string("/grid/x", "units") == "m");
+  CHECK(h.attr_string("/probes/time", "units") == "s");
+  CHECK(h.shape("/probes/velocity_y").at(1) == 3);
 }
 
 TEST_CASE("cli: a run that blows up exits 1 and leaves a file marked failed", "[unit]") {
@@ -116,6 +137,9 @@ TEST_CASE("cli: a run that blows up exits 1 and leaves a file marked failed", "[
   INFO(r.output);
   CHECK(r.exit_code == 1);
   CHECK_THAT(r.output, Contains("non-physical state"));
+  // A normalized run: the numbers of the message carry no SI units.
+  CHECK_THAT(r.output, Contains("(normalized units):"));
+  CHECK_THAT(r.output, !Contains(" m) at t") && !Contains(" s (Runge") && !Contains(" s) was kept"));
   CHECK_THAT(r.output, Contains("failed"));
   REQUIRE(entries(dir.path()) == std::vector<std::string>{"blowup.h5", "blowup.xmf"});
   const tw::io::H5Reader h((dir / "blowup.h5").string());
