@@ -6,6 +6,7 @@
 #include <array>
 
 #include "core/error.hpp"
+#include "core/time_stamp.hpp"
 #include "io/h5update.hpp"
 #include "tubewave/version.hpp"
 
@@ -60,15 +61,6 @@ std::vector<cplx> read_complex(const io::H5Reader& r, const std::string& group, 
   out.reserve(re.size());
   for (std::size_t i = 0; i < re.size(); ++i) out.emplace_back(re[i], im[i]);
   return out;
-}
-
-std::string utc_now() {
-  const std::time_t now = std::time(nullptr);
-  std::tm tm{};
-  gmtime_r(&now, &tm);
-  std::array<char, 32> buf{};
-  const std::size_t n = std::strftime(buf.data(), buf.size(), "%Y-%m-%dT%H:%M:%SZ", &tm);
-  return std::string(buf.data(), n);
 }
 
 }  // namespace
@@ -173,7 +165,7 @@ void fill_measurement(io::GroupWriter& g, const WaveMeasurement& m, const std::s
   {
     g.attribute("", "field", m.field);
     g.attribute("", "complex", std::string(m.complex_field ? "yes" : "no"));
-    g.attribute("", "created", utc_now());
+    g.attribute("", "created", utc_now_iso8601());
     g.attribute("", "tubewave_version", std::string(build::version) + " (git " + build::git_revision + ")");
     g.attribute("", "window", window);
     std::string notes;

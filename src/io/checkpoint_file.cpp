@@ -7,6 +7,7 @@
 #include <system_error>
 
 #include "core/error.hpp"
+#include "core/time_stamp.hpp"
 #include "io/file_ops.hpp"
 #include "io/h5handle.hpp"
 #include "io/h5read.hpp"
@@ -104,15 +105,6 @@ class Writer {
   std::string file_;
 };
 
-std::string utc_now() {
-  const std::time_t now = std::time(nullptr);
-  std::tm tm{};
-  gmtime_r(&now, &tm);
-  std::array<char, 32> buf{};
-  const std::size_t n = std::strftime(buf.data(), buf.size(), "%Y-%m-%dT%H:%M:%SZ", &tm);
-  return std::string(buf.data(), n);
-}
-
 void require_link_name(const std::string& name, const char* what) {
   TW_CHECK(!name.empty() && name != "." && name.find('/') == std::string::npos,
            std::string("invalid checkpoint ") + what + " name '" + name + "'");
@@ -122,7 +114,7 @@ void write_all(const Writer& w, hid_t root, const CheckpointData& d) {
   w.string_attr(root, "format", format_name, "/");
   w.int_attr(root, "format_version", checkpoint_format_version, "/");
   w.int_attr(root, "complete", 0, "/");
-  w.string_attr(root, "created", utc_now(), "/");
+  w.string_attr(root, "created", utc_now_iso8601(), "/");
   w.string_attr(root, "tubewave_version", tw::build::version, "/");
   w.string_attr(root, "git_revision", tw::build::git_revision, "/");
   w.string_attr(root, "reason", d.reason, "/");

@@ -12,6 +12,7 @@
 #include <utility>
 
 #include "core/error.hpp"
+#include "core/time_stamp.hpp"
 #include "io/file_ops.hpp"
 #include "io/h5handle.hpp"
 #include "io/h5read.hpp"
@@ -150,16 +151,6 @@ bool valid_link_name(const std::string& name) {
 
 bool link_exists(hid_t loc, const std::string& name) {
   return H5Lexists(loc, name.c_str(), H5P_DEFAULT) > 0;
-}
-
-/// "2024-05-01T12:34:56Z"
-std::string utc_now_iso8601() {
-  const std::time_t now = std::time(nullptr);
-  std::tm tm{};
-  gmtime_r(&now, &tm);
-  std::array<char, 32> buf{};
-  const std::size_t n = std::strftime(buf.data(), buf.size(), "%Y-%m-%dT%H:%M:%SZ", &tm);
-  return std::string(buf.data(), n);
 }
 
 /// 32 hexadecimal digits from the system's random source: tells runs apart, so a

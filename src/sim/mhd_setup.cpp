@@ -106,14 +106,7 @@ void read_mhd_fluid(const io::RunFile& rf, const CaseSetup& c, Mhd& m) {
     if (rf.given("model.resistivity"))
       rf.fail("model.resistivity", "give a constant resistivity or resistivity_model: spitzer, not both");
     if (c.units.normalized) rf.fail("model.resistivity_model", "the Spitzer resistivity needs SI units (units: si)");
-    const PlasmaPoint p = c.plasma.at(c.grid.x_min, c.units);
-    PlasmaInput in;
-    in.n_e = p.n_e;
-    in.B = c.plasma.field;
-    in.ion_mass = c.plasma.ion_mass;
-    in.Z = c.plasma.charge;
-    in.Te_eV = p.t_e / c.units.energy_per_eV;
-    in.Ti_eV = p.t_i / c.units.energy_per_eV;
+    PlasmaInput in = c.plasma.formulary_input(c.grid.x_min, c.units);
     if (rf.has("model.coulomb_logarithm")) in.ln_lambda = rf.get_real("model.coulomb_logarithm");
     if (in.Te_eV <= 0) rf.fail("plasma.electron_temperature", "the Spitzer resistivity needs T_e > 0");
     if (in.B <= 0)

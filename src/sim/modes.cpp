@@ -60,14 +60,7 @@ ModesSetup modes_setup(const io::RunFile& rf, std::optional<real> x, std::option
   s.input = dispersion_input(rf, c, s.x, kp);
   s.variables = linear_variables(s.equations);
   if (!c.units.normalized && c.plasma.field > 0) {
-    const PlasmaPoint p = c.plasma.at(s.x, c.units);
-    PlasmaInput in;
-    in.n_e = p.n_e;
-    in.B = c.plasma.field;
-    in.ion_mass = c.plasma.ion_mass;
-    in.Z = c.plasma.charge;
-    in.Te_eV = p.t_e / c.units.energy_per_eV;
-    in.Ti_eV = p.t_i / c.units.energy_per_eV;
+    PlasmaInput in = c.plasma.formulary_input(s.x, c.units);
     if (rf.has("model.coulomb_logarithm")) in.ln_lambda = rf.get_real("model.coulomb_logarithm");
     s.plasma_input = in;
     s.plasma = derive_plasma_parameters(in);

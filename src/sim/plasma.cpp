@@ -32,4 +32,16 @@ PlasmaPoint PlasmaSpec::at(real x, const UnitSystem& units) const {
   return p;
 }
 
+PlasmaInput PlasmaSpec::formulary_input(real x, const UnitSystem& units) const {
+  const PlasmaPoint p = at(x, units);
+  PlasmaInput in;
+  in.n_e = p.n_e;
+  in.B = field;
+  in.ion_mass = ion_mass;
+  in.Z = charge;
+  in.Te_eV = p.t_e / units.energy_per_eV;
+  in.Ti_eV = p.t_i / units.energy_per_eV;
+  return in;
+}
+
 }  // namespace tw

@@ -5,6 +5,7 @@
 #include <functional>
 #include <string>
 
+#include "core/plasma_params.hpp"
 #include "core/types.hpp"
 #include "core/units.hpp"
 
@@ -41,6 +42,10 @@ struct PlasmaSpec {
   [[nodiscard]] Vec<3> b0() const;
   /// The background at x, temperatures converted to energies with `units`.
   [[nodiscard]] PlasmaPoint at(real x, const UnitSystem& units) const;
+  /// The input of the formulary (derive_plasma_parameters) for the background at x: n_e,
+  /// temperatures in eV, |B0|, ion mass and charge; the Coulomb logarithm is left to the
+  /// caller. SI runs only.
+  [[nodiscard]] PlasmaInput formulary_input(real x, const UnitSystem& units) const;
   /// Mass per ion including its Z electrons [kg]: mass density = n_i * this.
   [[nodiscard]] real particle_mass(const UnitSystem& units) const { return ion_mass + charge * units.m_e; }
 };

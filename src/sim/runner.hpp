@@ -351,15 +351,8 @@ class CaseRunner {
     };
     for (auto& mp : ModelSetup<M>::parameters(model_, c_)) params.push_back(mp);
     // Derived parameters of the background at the left end (SI runs with a field only).
-    const PlasmaPoint bg = c_.plasma.at(c_.grid.x_min, c_.units);
-    if (!c_.units.normalized && c_.plasma.field > 0 && bg.n_e > 0) {
-      PlasmaInput in;
-      in.n_e = bg.n_e;
-      in.B = c_.plasma.field;
-      in.ion_mass = c_.plasma.ion_mass;
-      in.Z = c_.plasma.charge;
-      in.Te_eV = bg.t_e / c_.units.energy_per_eV;
-      in.Ti_eV = bg.t_i / c_.units.energy_per_eV;
+    const PlasmaInput in = c_.plasma.formulary_input(c_.grid.x_min, c_.units);
+    if (!c_.units.normalized && in.B > 0 && in.n_e > 0) {
       for (const auto& row : plasma_parameter_rows(derive_plasma_parameters(in)))
         params.push_back({"background_" + row.key, row.value, row.units, row.description + " (background at the left end)"});
     }

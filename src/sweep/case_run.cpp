@@ -10,6 +10,7 @@
 #include <numbers>
 
 #include "core/error.hpp"
+#include "core/time_stamp.hpp"
 #include "diagnostics/run_layout.hpp"
 #include "diagnostics/run_measure.hpp"
 #include "diagnostics/wave_measure.hpp"
@@ -27,15 +28,6 @@ namespace fs = std::filesystem;
 namespace {
 
 constexpr real nan = std::numeric_limits<real>::quiet_NaN();
-
-std::string utc_now() {
-  const std::time_t now = std::time(nullptr);
-  std::tm tm{};
-  gmtime_r(&now, &tm);
-  std::array<char, 32> buf{};
-  const std::size_t n = std::strftime(buf.data(), buf.size(), "%Y-%m-%dT%H:%M:%SZ", &tm);
-  return std::string(buf.data(), n);
-}
 
 /// Relative cost of one cell-update of each model against ideal MHD (HLLD + PLM + SSP-RK2),
 /// from the per-step timings in the README's performance table (Hall MHD 8.3e-4 s, two-fluid
@@ -352,7 +344,7 @@ CaseRecord run_one_case(const Sweep& s, const Case& c, const std::string& run_ha
   }
   for (const auto& n : notes) rec.message += "; note: " + n;
   rec.wall_seconds = earlier_wall + std::chrono::duration<double>(clock::now() - t0).count();
-  rec.finished = utc_now();
+  rec.finished = utc_now_iso8601();
   if (rec.status == "interrupted") return rec;  // not recorded: it runs again next time
   try {
     std::error_code ec;

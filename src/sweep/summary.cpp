@@ -11,6 +11,7 @@
 #include <limits>
 
 #include "core/error.hpp"
+#include "core/time_stamp.hpp"
 #include "io/h5table.hpp"
 #include "sweep/predict.hpp"
 #include "tubewave/version.hpp"
@@ -39,15 +40,6 @@ std::string csv_field(const std::string& s) {
     r += c;
   }
   return r + "\"";
-}
-
-std::string utc_now() {
-  const std::time_t now = std::time(nullptr);
-  std::tm tm{};
-  gmtime_r(&now, &tm);
-  std::array<char, 32> buf{};
-  const std::size_t n = std::strftime(buf.data(), buf.size(), "%Y-%m-%dT%H:%M:%SZ", &tm);
-  return std::string(buf.data(), n);
 }
 
 const Quantity* find(const std::vector<Quantity>& qs, const std::string& name) {
@@ -211,7 +203,7 @@ void write_summary(const Sweep& s, const std::vector<CaseRecord>& records, const
                        {"sweep_file", s.path},
                        {"base_run_file", s.base},
                        {"combine", s.combine},
-                       {"created", utc_now()},
+                       {"created", utc_now_iso8601()},
                        {"tubewave_version", std::string(build::version) + " (git " + build::git_revision + ")"}};
   t.real_attributes = {{"format_version", 1},
                        {"cases", static_cast<real>(records.size())},

@@ -357,12 +357,19 @@ TEST_CASE("restart: kill -9 at any moment leaves no complete-looking output and 
       args.push_back("--set");
       args.push_back(s);
     }
+    const fs::path out = run_dir / "run.h5", ckpt = run_dir / "run.checkpoint.h5";
     const int pid = tw::test::start_tubewave(args, run_dir.path(), run_dir / "log.txt");
-    ::usleep(static_cast<useconds_t>(1e6 * duration * (0.1 + 0.11 * k)));
+    // The first half at moments spread over the run (wall clock: on a loaded machine these
+    // may all land before the first checkpoint); the second half once a checkpoint exists,
+    // so the continuing path is always exercised.
+    if (k >= 4)
+      for (int i = 0; i < 3000 && !fs::exists(ckpt); ++i) ::usleep(10000);
+    const double wait = duration * (k < 4 ? 0.1 + 0.11 * k : 0.05 * (k - 4));
+    ::usleep(static_cast<useconds_t>(1e6 * wait));
     ::kill(pid, SIGKILL);
     const int code = tw::test::wait_tubewave(pid);
-    INFO("kill " << k << " after " << duration * (0.1 + 0.11 * k) << " s, exit " << code);
-    const fs::path out = run_dir / "run.h5", ckpt = run_dir / "run.checkpoint.h5";
+    INFO("kill " << k << " after " << wait << " s" << (k >= 4 ? " past the first checkpoint" : "") << ", exit "
+                 << code);
     if (code == 0) {  // finished before the kill: a complete, correct file
       require_identical(out, reference);
       continue;
