@@ -136,10 +136,10 @@ class Run:
         return self._series("probes", field)
 
     def probe_positions(self):
-        """Probe positions from /probes/position if the file has it, else from the resolved
+        """Probe positions from /grid/probe_x if the file has it, else from the resolved
         run file's output.probes (a list of numbers); None when unknown."""
-        if "probes/position" in self.h5:
-            return self.h5["probes/position"][:]
+        if "grid/probe_x" in self.h5:
+            return self.h5["grid/probe_x"][:]
         text = self.resolved_run_file()
         try:
             import yaml  # optional (python3-yaml); the fallback below reads the usual form

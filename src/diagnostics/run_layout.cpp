@@ -43,23 +43,32 @@ RunLayout read_run_file_layout(const io::H5Reader& h, std::vector<std::string>& 
     const std::string left = rf.get_string("boundaries.left.kind");
     const std::string right = rf.get_string("boundaries.right.kind");
     layout.periodic = left == "periodic" && right == "periodic";
+    // The drives: driven ends, then antennas inside the tube, in the run file's order.
+    std::vector<std::pair<std::string, std::string>> drives;  // (key, name in notes)
     for (const char* side : {"left", "right"}) {
       const std::string key = std::string("boundaries.") + side;
-      if (rf.get_string(key + ".kind") != "driven" || !present(rf, key + ".frequency")) continue;
+      if (rf.get_string(key + ".kind") == "driven") drives.emplace_back(key, std::string("the ") + side + " end's drive");
+    }
+    const std::size_t antennas = declared("antennas") ? rf.count("antennas") : 0;
+    for (std::size_t i = 0; i < antennas; ++i)
+      drives.emplace_back("antennas[" + std::to_string(i) + "]", "antenna " + std::to_string(i + 1));
+    std::string chosen;
+    for (const auto& [key, name] : drives) {
+      if (!rf.has(key + ".frequency")) continue;
       // Waveforms without one carrier frequency (sweeps, pulses) leave it to the spectrum.
-      const std::string waveform = present(rf, key + ".waveform") ? rf.get_string(key + ".waveform") : "continuous";
+      const std::string waveform = rf.has(key + ".waveform") ? rf.get_string(key + ".waveform") : "continuous";
       if (waveform != "continuous" && waveform != "tone-burst") {
-        notes.push_back("the " + std::string(side) + " end's drive (" + waveform +
-                        ") has no single frequency: the spectral peak is measured");
+        notes.push_back(name + " (" + waveform + ") has no single frequency: the spectral peak is measured");
         continue;
       }
       const real f = rf.get_real(key + ".frequency");
       if (!(f > 0)) continue;
       if (!layout.drive_frequency) {
         layout.drive_frequency = f;
+        chosen = name;
       } else if (f != *layout.drive_frequency) {
-        notes.push_back("both ends are driven, at different frequencies: the left end's is measured "
-                        "(give --frequency for the other)");
+        notes.push_back("the drives run at different frequencies: " + chosen +
+                        "'s is measured (give --frequency for another)");
       }
     }
   } catch (const Error& e) {

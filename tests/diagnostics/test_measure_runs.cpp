@@ -110,3 +110,25 @@ TEST_CASE("measure agrees with v_A on the driven column: wavelength, phase and g
   CHECK(std::abs(vg.value - v_A) / v_A < 5e-3);
   CHECK(stored(h, "velocity_y", "frequency").value == 1e5);
 }
+
+TEST_CASE("measure takes the drive frequency from an antenna inside the tube", "[unit][measure]") {
+  // The demo column: no driven end, a tone-burst loop antenna at 100 kHz. The frequency is
+  // the run file's, not a fit (its uncertainty is zero), and the probe positions come from
+  // /grid/probe_x (the group speed from envelope arrivals at the probes needs them).
+  const ScratchDir dir("measure-antenna");
+  const auto r = run_tubewave("run '" + source_path("configs/demo_column.yaml").string() +
+                                  "' -o run.h5 --quiet --threads 1 --set grid.cells=600",
+                              dir.path());
+  INFO(r.output);
+  REQUIRE(r.exit_code == 0);
+  const auto mr = run_tubewave("measure run.h5 --no-spectrum", dir.path());
+  INFO(mr.output);
+  REQUIRE(mr.exit_code == 0);
+  CHECK_THAT(mr.output, Catch::Contains("drive frequency (run file)"));
+  const tw::io::H5Reader h((dir / "run.h5").string());
+  const Stored f = stored(h, "velocity_y", "frequency");
+  CHECK(f.value == 1e5);
+  CHECK(f.sigma == 0);
+  CHECK(h.read_real("/grid/probe_x").size() == 4);
+  CHECK(std::isfinite(stored(h, "velocity_y", "group_speed").value));
+}
