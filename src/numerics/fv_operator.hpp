@@ -492,12 +492,17 @@ class FvOperator {
       const int n = grid_.n_cells;
       constexpr int block = BlockKernel::block_faces;
       const int n_blocks = (n + block - 1) / block;
-#pragma omp for schedule(static) reduction(min : bad)
+      // Each thread's first bad cell, merged below (no reduction clause on a reference in an
+      // orphaned loop: clang refuses it; min is exact, so the merge order does not matter).
+      int mine = bad;
+#pragma omp for schedule(static)
       for (int b = 0; b < n_blocks; ++b) {
         const int i0 = b * block;
         const int k = BlockKernel::primitives(m, &U[0], &W_[0], columns(), i0, std::min(i0 + block, n));
-        if (k >= 0) bad = std::min(bad, k);
+        if (k >= 0) mine = std::min(mine, k);
       }
+#pragma omp critical(tubewave_first_bad_cell)
+      bad = std::min(bad, mine);
     } else {
       (void)m;
       (void)U;
@@ -513,10 +518,11 @@ class FvOperator {
       const int n = grid_.n_cells;
       const int n_blocks = (n + 1 + block - 1) / block;
       const bool grad = gradient_active(m);
-#pragma omp for schedule(static) reduction(max : smax)
+      real mine = 0;  // merged below, as in face_pass
+#pragma omp for schedule(static)
       for (int b = 0; b < n_blocks; ++b) {
         const int f0 = b * block, f1 = std::min(f0 + block, n + 1);
-        smax = std::max(smax, BlockKernel::faces(m, scheme_.reconstruction, scheme_.limiter, scheme_.flux,
+        mine = std::max(mine, BlockKernel::faces(m, scheme_.reconstruction, scheme_.limiter, scheme_.flux,
                                                 columns(), f0, f1, F_.data()));
         if constexpr (HasGradientFlux<M>) {
           if (grad) {
@@ -527,6 +533,8 @@ class FvOperator {
           }
         }
       }
+#pragma omp critical(tubewave_face_speed)
+      smax = std::max(smax, mine);
     } else {
       (void)m;
       (void)dx;

@@ -10,8 +10,6 @@ namespace tw::sweep {
 
 namespace {
 
-constexpr real nan = std::numeric_limits<real>::quiet_NaN();
-
 // ---------------------------------------------------------------------------------------
 // Ideal and resistive MHD (scripts-post/twdispersion.py, same formulas and sources).
 //
