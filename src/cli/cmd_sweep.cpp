@@ -15,6 +15,7 @@
 #include "cli/commands.hpp"
 #include "cli/stop_signals.hpp"
 #include "core/error.hpp"
+#include "io/file_ops.hpp"
 #include "sweep/case_run.hpp"
 #include "sweep/job_script.hpp"
 #include "sweep/mpi_sweep.hpp"
@@ -148,15 +149,7 @@ int write_job_script(const Sweep& s, const std::vector<CasePlan>& plans, const A
   if (ec) throw RunError("cannot create '" + (fs::path(s.output_dir) / "logs").string() + "': " + ec.message());
   make_dirs(s);
   const std::string path = (fs::path(s.output_dir) / "job-array.sh").string();
-  const std::string temp = path + ".tmp";
-  {
-    std::ofstream out(temp, std::ios::trunc);
-    out << text;
-    if (!out) throw RunError("cannot write '" + temp + "'");
-  }
-  fs::permissions(temp, fs::perms::owner_exec | fs::perms::group_exec | fs::perms::others_exec, fs::perm_options::add, ec);
-  fs::rename(temp, path, ec);
-  if (ec) throw RunError("cannot write '" + path + "': " + ec.message());
+  io::write_text_file(path, text, true);
   std::string merge = shell_quote(opt.tubewave) + " sweep " + shell_quote(opt.sweep_file);
   for (const auto& x : opt.extra_args) {
     merge += ' ';

@@ -6,6 +6,7 @@
 #include <cerrno>
 #include <cstring>
 #include <filesystem>
+#include <fstream>
 #include <system_error>
 
 #include "core/error.hpp"
@@ -56,6 +57,29 @@ void copy_new_file(const std::string& from, const std::string& to) {
 
 std::string temporary_name(const std::string& path) {
   return path + ".tmp." + std::to_string(::getpid());
+}
+
+void write_text_file(const std::string& path, const std::string& text, bool executable) {
+  const std::string temp = temporary_name(path);
+  std::error_code ec;
+  {
+    std::ofstream out(temp, std::ios::binary | std::ios::trunc);
+    out << text;
+    out.close();
+    if (!out) {
+      fs::remove(temp, ec);
+      throw RunError("cannot write '" + temp + "'");
+    }
+  }
+  if (executable)
+    fs::permissions(temp, fs::perms::owner_exec | fs::perms::group_exec | fs::perms::others_exec,
+                    fs::perm_options::add, ec);
+  try {
+    replace_file(temp, path);
+  } catch (...) {
+    fs::remove(temp, ec);
+    throw;
+  }
 }
 
 }  // namespace tw::io

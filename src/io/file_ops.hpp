@@ -30,4 +30,9 @@ void copy_new_file(const std::string& from, const std::string& to);
 /// keeps two processes writing the same path apart; a leftover name means its writer died.
 std::string temporary_name(const std::string& path);
 
+/// Write `text` to `path` through its temporary name and replace_file (so readers never see
+/// a partial file); `executable` adds the execute permissions. On failure the temporary file
+/// is removed and RunError names it.
+void write_text_file(const std::string& path, const std::string& text, bool executable = false);
+
 }  // namespace tw::io

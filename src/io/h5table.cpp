@@ -6,6 +6,7 @@
 #include <system_error>
 
 #include "core/error.hpp"
+#include "io/file_ops.hpp"
 #include "io/h5handle.hpp"
 
 namespace tw::io {
@@ -108,7 +109,7 @@ void write_column(hid_t root, const TableColumn& c, const std::string& file) {
 
 void write_table_file(const std::string& path, const TableFile& table) {
   h5::silence_error_printing();
-  const std::string temp = path + ".tmp." + std::to_string(::getpid());
+  const std::string temp = temporary_name(path);
   std::error_code ec;
   fs::remove(temp, ec);  // a leftover of this process id is ours
   struct Guard {
@@ -136,8 +137,7 @@ void write_table_file(const std::string& path, const TableFile& table) {
     check(H5Fflush(f.get(), H5F_SCOPE_GLOBAL), temp, "flush");
     check(f.close(), temp, "close");
   }
-  fs::rename(temp, path, ec);
-  if (ec) throw RunError("cannot rename '" + temp + "' to '" + path + "': " + ec.message());
+  replace_file(temp, path);
   guard.p.clear();
 }
 

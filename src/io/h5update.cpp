@@ -8,6 +8,7 @@
 #include <system_error>
 
 #include "core/error.hpp"
+#include "io/file_ops.hpp"
 #include "io/h5handle.hpp"
 
 namespace tw::io {
@@ -178,7 +179,7 @@ void replace_groups(const std::string& file, const std::vector<GroupFill>& group
   h5::silence_error_printing();
   for (const auto& g : groups)
     TW_CHECK(g.group.size() > 1 && g.group[0] == '/' && g.group.back() != '/', "bad group path '" + g.group + "'");
-  const std::string temp = file + ".tmp." + std::to_string(::getpid());
+  const std::string temp = temporary_name(file);
   std::error_code ec;
   if (fs::exists(temp, ec))
     throw RunError("cannot update '" + file + "': the temporary file '" + temp + "' already exists");
@@ -221,8 +222,7 @@ void replace_groups(const std::string& file, const std::vector<GroupFill>& group
     check(H5Fflush(f.get(), H5F_SCOPE_GLOBAL), temp, "flush");
     check(f.close(), temp, "close");
   }
-  fs::rename(temp, file, ec);
-  if (ec) throw RunError("cannot rename '" + temp + "' to '" + file + "': " + ec.message());
+  replace_file(temp, file);
   guard.release();
 }
 

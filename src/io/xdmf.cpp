@@ -8,6 +8,7 @@
 #include <system_error>
 
 #include "core/error.hpp"
+#include "io/file_ops.hpp"
 #include "io/h5read.hpp"
 
 namespace tw::io {
@@ -123,23 +124,7 @@ std::string write_sidecar(const std::string& h5_path) {
   x << "    </Grid>\n  </Domain>\n</Xdmf>\n";
 
   const std::string out = xdmf_path_for(h5_path);
-  const std::string temp = out + ".tmp." + std::to_string(::getpid());
-  {
-    std::ofstream f(temp, std::ios::binary | std::ios::trunc);
-    f << x.str();
-    f.close();
-    if (!f) {
-      std::error_code ec;
-      fs::remove(temp, ec);
-      throw RunError("cannot write the XDMF sidecar '" + temp + "'");
-    }
-  }
-  std::error_code ec;
-  fs::rename(temp, out, ec);
-  if (ec) {
-    fs::remove(temp, ec);
-    throw RunError("cannot rename '" + temp + "' to '" + out + "'");
-  }
+  write_text_file(out, x.str());
   return out;
 }
 

@@ -269,15 +269,7 @@ class FvOperator {
           for (int f = 0; f <= n; ++f) D_[static_cast<std::size_t>(f)] = m.dissipation(W_[f - 1], W_[f], dx);
         }
       }
-      if constexpr (HasStepLimits<M>) {
-        if (want_limits) {
-#pragma omp single
-          thread_limits.resize(static_cast<std::size_t>(omp_threads()));
-          StepLimits& mine = thread_limits[static_cast<std::size_t>(omp_thread())];
-#pragma omp for schedule(static)
-          for (int i = 0; i < n; ++i) m.step_limits(dx, W_[i], mine);
-        }
-      }
+      if (want_limits) step_limits_pass(m, dx, thread_limits);
     }
     rep.source_power.resize(sources_.size());
     for (std::size_t j = 0; j < sources_.size(); ++j) {
@@ -344,15 +336,7 @@ class FvOperator {
 #pragma omp for schedule(static) reduction(max : smax)
         for (int i = -1; i <= n; ++i) smax = std::max(smax, m.signal_speeds(W_[i]).abs_max());
       }
-      if constexpr (HasStepLimits<M>) {
-        if (want_limits) {
-#pragma omp single
-          thread_limits.resize(static_cast<std::size_t>(omp_threads()));
-          StepLimits& mine = thread_limits[static_cast<std::size_t>(omp_thread())];
-#pragma omp for schedule(static)
-          for (int i = 0; i < n; ++i) m.step_limits(dx, W_[i], mine);
-        }
-      }
+      if (want_limits) step_limits_pass(m, dx, thread_limits);
     }
     for (const auto& l : thread_limits) rep.limits.merge(l);
     rep.max_speed = smax;
@@ -483,6 +467,22 @@ class FvOperator {
       for (int g = 1; g <= Grid::n_ghost; ++g)
         for (int c : {-g, n - 1 + g})
           for (int k = 0; k < N; ++k) cols.data[k * cols.stride + c] = W_[c][k];
+    }
+  }
+
+  /// The model's own step limits, one record per thread (merged by the caller in thread
+  /// order). Inside a parallel region.
+  void step_limits_pass(const M& m, real dx, std::vector<StepLimits>& thread_limits) const {
+    if constexpr (HasStepLimits<M>) {
+#pragma omp single
+      thread_limits.resize(static_cast<std::size_t>(omp_threads()));
+      StepLimits& mine = thread_limits[static_cast<std::size_t>(omp_thread())];
+#pragma omp for schedule(static)
+      for (int i = 0; i < grid_.n_cells; ++i) m.step_limits(dx, W_[i], mine);
+    } else {
+      (void)m;
+      (void)dx;
+      (void)thread_limits;
     }
   }
 

@@ -12,6 +12,7 @@
 
 #include "core/error.hpp"
 #include "core/time_stamp.hpp"
+#include "io/file_ops.hpp"
 #include "io/h5table.hpp"
 #include "sweep/predict.hpp"
 #include "tubewave/version.hpp"
@@ -136,30 +137,15 @@ std::string csv_name(const io::TableColumn& c) {
 }
 
 void write_csv(const std::string& path, const std::vector<io::TableColumn>& cols, std::size_t rows) {
-  const std::string temp = path + ".tmp." + std::to_string(::getpid());
-  {
-    std::ofstream out(temp, std::ios::binary | std::ios::trunc);
-    if (!out) throw RunError("cannot write '" + temp + "'");
-    for (std::size_t k = 0; k < cols.size(); ++k) out << (k ? "," : "") << csv_field(csv_name(cols[k]));
+  std::ostringstream out;
+  for (std::size_t k = 0; k < cols.size(); ++k) out << (k ? "," : "") << csv_field(csv_name(cols[k]));
+  out << "\n";
+  for (std::size_t i = 0; i < rows; ++i) {
+    for (std::size_t k = 0; k < cols.size(); ++k)
+      out << (k ? "," : "") << csv_field(cols[k].text ? cols[k].texts[i] : number(cols[k].reals[i]));
     out << "\n";
-    for (std::size_t i = 0; i < rows; ++i) {
-      for (std::size_t k = 0; k < cols.size(); ++k)
-        out << (k ? "," : "") << csv_field(cols[k].text ? cols[k].texts[i] : number(cols[k].reals[i]));
-      out << "\n";
-    }
-    out.flush();
-    if (!out) {
-      std::error_code ec;
-      fs::remove(temp, ec);
-      throw RunError("cannot write '" + temp + "'");
-    }
   }
-  std::error_code ec;
-  fs::rename(temp, path, ec);
-  if (ec) {
-    fs::remove(temp, ec);
-    throw RunError("cannot rename '" + temp + "' to '" + path + "'");
-  }
+  io::write_text_file(path, out.str());
 }
 
 }  // namespace

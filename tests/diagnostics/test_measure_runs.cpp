@@ -30,6 +30,20 @@ Stored stored(const tw::io::H5Reader& h, const std::string& field, const std::st
   return {h.read_real(p)[0], h.attr_real(p, "uncertainty")};
 }
 
+/// `tubewave run CONFIG -o run.h5 ARGS` on one thread, then `tubewave measure run.h5
+/// --no-spectrum`, in `dir`; both must succeed. Returns what measure printed.
+std::string run_and_measure(const std::string& config, const std::string& args, const ScratchDir& dir) {
+  const auto r = run_tubewave("run '" + source_path(config).string() + "' -o run.h5 --quiet --threads 1 " + args,
+                              dir.path());
+  INFO(r.output);
+  REQUIRE(r.exit_code == 0);
+  const auto mr = run_tubewave("measure run.h5 --no-spectrum", dir.path());
+  INFO(mr.output);
+  REQUIRE(mr.exit_code == 0);
+  CHECK_THAT(mr.output, Catch::Contains("stored in run.h5:/measurements/"));
+  return mr.output;
+}
+
 double mean(const std::vector<double>& v, std::size_t n) {
   double s = 0;
   for (std::size_t i = 0; i < n; ++i) s += v[i];
@@ -91,14 +105,7 @@ TEST_CASE("measure agrees with v_A on the driven column: wavelength, phase and g
   namespace k = tw::constants;
   const double v_A = 0.1 / std::sqrt(k::mu0 * 1.5e18 * 4.002602 * k::u);
   const ScratchDir dir("measure-driven-run");
-  const auto r = run_tubewave("run '" + source_path("validation/runs/mhd_driven_column.yaml").string() +
-                                  "' -o run.h5 --quiet --threads 1 --set grid.cells=1000",
-                              dir.path());
-  INFO(r.output);
-  REQUIRE(r.exit_code == 0);
-  const auto mr = run_tubewave("measure run.h5 --no-spectrum", dir.path());
-  INFO(mr.output);
-  REQUIRE(mr.exit_code == 0);
+  (void)run_and_measure("validation/runs/mhd_driven_column.yaml", "--set grid.cells=1000", dir);
   const tw::io::H5Reader h((dir / "run.h5").string());
   const Stored vph = stored(h, "velocity_y", "phase_speed");
   const Stored vg = stored(h, "velocity_y", "group_speed");
@@ -116,19 +123,12 @@ TEST_CASE("measure takes the drive frequency from an antenna inside the tube", "
   // the run file's, not a fit (its uncertainty is zero), and the probe positions come from
   // /grid/probe_x (the group speed from envelope arrivals at the probes needs them).
   const ScratchDir dir("measure-antenna");
-  const auto r = run_tubewave("run '" + source_path("configs/demo_column.yaml").string() +
-                                  "' -o run.h5 --quiet --threads 1 --set grid.cells=600",
-                              dir.path());
-  INFO(r.output);
-  REQUIRE(r.exit_code == 0);
-  const auto mr = run_tubewave("measure run.h5 --no-spectrum", dir.path());
-  INFO(mr.output);
-  REQUIRE(mr.exit_code == 0);
-  CHECK_THAT(mr.output, Catch::Contains("drive frequency (run file)"));
+  const std::string printed = run_and_measure("configs/demo_column.yaml", "--set grid.cells=600", dir);
+  CHECK_THAT(printed, Catch::Contains("drive frequency (run file)"));
   const tw::io::H5Reader h((dir / "run.h5").string());
   const Stored f = stored(h, "velocity_y", "frequency");
   CHECK(f.value == 1e5);
-  CHECK(f.sigma == 0);
+  CHECK(f.sigma == 0);  // given by the run file, not fitted
   CHECK(h.read_real("/grid/probe_x").size() == 4);
   CHECK(std::isfinite(stored(h, "velocity_y", "group_speed").value));
 }
